@@ -1,0 +1,62 @@
+/**
+ * Record types that flow from workers through the journal into the report. Field names are the CSV
+ * column names (snake_case with units) so that tables are rebuilt from the journal without renaming.
+ */
+
+/** Cell status: finished normally, stopped by a budget (value is a lower bound), or failed. */
+export type CellStatus = "ok" | "censored" | "error";
+
+/** One row of instances.csv: an instance and its exact ground truth. */
+export interface InstanceRow {
+  family: string;
+  n: number;
+  instance: number;
+  seed: string;
+  /** Family-specific descriptors (clauses, density, planted, rejected_draws, edges, …). */
+  [extra: string]: string | number | boolean | null;
+}
+
+/** One row of runs.csv: one solver on one instance at one run length. */
+export interface RunRow {
+  family: string;
+  n: number;
+  instance: number;
+  solver: string;
+  /** Run length parameter (sweeps for anneal, max flips per trial for walk, empty for exhaustive). */
+  run_length: number | null;
+  status: CellStatus;
+  wall_ns: number;
+  /** Elementary work: assignments for exhaustive, flips for walk, flip attempts for anneal. */
+  work: number;
+  trials: number | null;
+  successes: number | null;
+  /** Per-trial success probability and its Wilson 95% interval. */
+  p: number | null;
+  p_low: number | null;
+  p_high: number | null;
+  work_per_trial: number | null;
+  wall_ns_per_trial: number | null;
+  /** Time to solution with 99% confidence, ns, and its interval from p's interval. */
+  tts_ns: number | null;
+  tts_ns_low: number | null;
+  tts_ns_high: number | null;
+  /** Work to solution with 99% confidence (elementary steps). */
+  tts_work: number | null;
+  message: string;
+}
+
+/** One row of predictions.csv: one quantum predictor on one instance. */
+export interface PredictionRow {
+  family: string;
+  n: number;
+  instance: number;
+  predictor: string;
+  status: CellStatus;
+  /** Predicted oracle (or reversible-trial) queries; never a measured time. */
+  queries: number | null;
+  queries_log2: number | null;
+  queries_low: number | null;
+  queries_high: number | null;
+  /** Predictor-specific parts (theta, k_star, rounds, gap, …), serialised as their own columns. */
+  [extra: string]: string | number | boolean | null;
+}
