@@ -1,0 +1,105 @@
+#!/usr/bin/env node
+/**
+ * The command line: a yargs command tree over the option table of options.ts. It turns argv into typed specs,
+ * calls the harness, and prints; nothing else lives here.
+ */
+import yargs, { type Argv, type Options } from "yargs";
+import { hideBin } from "yargs/helpers";
+import { EXIT, InputError } from "./errors.js";
+import { STUDY_OPTIONS, type OptionSpec } from "./options.js";
+import * as commands from "./commands.js";
+
+function yargsType(o: OptionSpec): Options["type"] {
+  if (o.type === "boolean") return "boolean";
+  return "string"; // numbers are validated by resolve.ts, so '--instances ten' gets our message, not NaN
+}
+
+function describe(o: OptionSpec): string {
+  const bits = [o.description];
+  if (o.unit) bits.push(`[${o.unit}]`);
+  if (o.choices && o.type !== "list") bits.push(`(${o.choices.join(" | ")})`);
+  if (o.choices && o.type === "list") bits.push(`(comma list of: ${o.choices.join(", ")})`);
+  if (o.min !== undefined || o.max !== undefined) bits.push(`range ${o.min ?? "-∞"}..${o.max ?? "∞"}`);
+  return bits.join(" ");
+}
+
+/** Adds the declared options of the given groups to a command. */
+function withOptions(y: Argv, groups: ReadonlyArray<OptionSpec["group"]>, skip: ReadonlyArray<string> = []): Argv {
+  for (const o of STUDY_OPTIONS) {
+    if (!groups.includes(o.group) || skip.includes(o.name)) continue;
+    y = y.option(o.name, {
+      type: yargsType(o),
+      describe: describe(o),
+      default: o.type === "boolean" ? undefined : o.default === undefined ? undefined : String(o.default),
+      group: `${o.group[0].toUpperCase()}${o.group.slice(1)} options:`,
+      requiresArg: o.type !== "boolean",
+    });
+  }
+  return y;
+}
+
+const STUDY_GROUPS = ["study", "family", "solvers", "predictors", "cost model", "run", "report"] as const;
+
+async function main(): Promise<number> {
+  const args = hideBin(process.argv);
+  let code: number = EXIT.ok;
+  const set = (c: number): void => {
+    code = c;
+  };
+  await yargs(args)
+    .scriptName("speedbound")
+    .usage("$0 <command> [options]\n\nMeasured classical scaling against predicted quantum costs on the same seeded instances.")
+    .command("run", "generate instances, compute ground truth, time solvers, predict quantum costs, write tables", (y) => withOptions(y, STUDY_GROUPS), async (a) => set(await commands.run(a, args)))
+    .command("demo", "a small 3-SAT study (n = 8..20) into results/demo, with a summary", (y) => y, async () => set(await commands.demo()))
+    .command(
+      "solve <file>",
+      "exact optimum and degeneracy of one DIMACS CNF or coupling-list file",
+      (y) => withOptions(y.positional("file", { type: "string", describe: "instance file" }).option("json", { type: "boolean", describe: "print one JSON object" }), ["run"], ["budget", "cell-limit", "shard"]),
+      async (a) => set(await commands.solve(a)),
+    )
+    .command(
+      "instance",
+      "print one generated instance (DIMACS CNF for ksat, coupling list for spin families) to stdout",
+      (y) => withOptions(y, ["study", "family"], ["out", "instances"]).option("index", { type: "string", default: "0", describe: "instance index (0-based)" }),
+      async (a) => set(await commands.instance(a)),
+    )
+    .command(
+      "report <dir>",
+      "rebuild every table, fit and plot of an output folder from its journal",
+      (y) => withOptions(y.positional("dir", { type: "string" }), ["report"]),
+      async (a) => set(await commands.report(a)),
+    )
+    .command(
+      "spectral <file>",
+      "spectral-method numerics (ground state of the filtered Hamiltonian) for one instance file",
+      (y) => withOptions(y.positional("file", { type: "string" }).option("json", { type: "boolean", describe: "print one JSON object" }), ["predictors"], ["predict"]),
+      async (a) => set(await commands.spectral(a)),
+    )
+    .command("cost", "print the fault-tolerant cost model's assumptions and a worked example", (y) => withOptions(y, ["cost model"]), async (a) => set(await commands.cost(a)))
+    .demandCommand(1, "give a command (see --help)")
+    .strict()
+    .recommendCommands()
+    .fail((msg, err) => {
+      if (err) throw err;
+      throw new InputError(msg.split("\n")[0]);
+    })
+    .help()
+    .wrap(Math.min(120, process.stdout.columns ?? 100))
+    .parseAsync();
+  return code;
+}
+
+main().then(
+  (code) => {
+    process.exitCode = code;
+  },
+  (e: unknown) => {
+    if (e instanceof InputError) {
+      process.stderr.write(`speedbound: ${e.message}\n`);
+      process.exitCode = EXIT.badInput;
+      return;
+    }
+    process.stderr.write(`speedbound: internal error: ${e instanceof Error ? (e.stack ?? e.message) : String(e)}\n`);
+    process.exitCode = 70;
+  },
+);
