@@ -75,6 +75,22 @@ async function main(): Promise<number> {
       (y) => withOptions(y.positional("file", { type: "string" }).option("json", { type: "boolean", describe: "print one JSON object" }), ["predictors"], ["predict"]),
       async (a) => set(await commands.spectral(a)),
     )
+    .command(
+      "merge <out> <dirs..>",
+      "join the shard folders of one study into OUT and write its tables",
+      (y) => y.positional("out", { type: "string", describe: "merged output folder" }).positional("dirs", { type: "string", array: true, describe: "shard folders" }),
+      async (a) => set(await commands.merge(a, args)),
+    )
+    .command(
+      "compare <old> <new>",
+      "night-to-night check of two runs of one study; exit code 1 on a regression",
+      (y) =>
+        y
+          .positional("old", { type: "string", describe: "earlier output folder" })
+          .positional("new", { type: "string", describe: "later output folder" })
+          .option("tolerance", { type: "string", default: "0.25", describe: "relative change in time per step that counts as a change" }),
+      async (a) => set(await commands.compare(a)),
+    )
     .command("cost", "print the fault-tolerant cost model's assumptions and a worked example", (y) => withOptions(y, ["cost model"]), async (a) => set(await commands.cost(a)))
     .demandCommand(1, "give a command (see --help)")
     .strict()

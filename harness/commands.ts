@@ -2,7 +2,7 @@
  * What each CLI command does, on typed inputs. cli.ts parses; this file runs the harness and prints.
  */
 import { availableParallelism } from "node:os";
-import { readFileSync } from "node:fs";
+import { mkdirSync, readFileSync } from "node:fs";
 import { join, resolve } from "node:path";
 import { EXIT, InputError } from "./errors.js";
 import { OUT_FILES, runStudy, type RunSummary } from "./run.js";
@@ -24,6 +24,8 @@ import { FAMILY_NAMES } from "./options.js";
 import { formatComparison } from "./report/paper.js";
 import { computeSpectral } from "./predict/spectral-cell.js";
 import { costModelRows } from "./predict/cost-table.js";
+import { mergeShards, writeMerged } from "./merge.js";
+import { DEFAULT_SPEED_TOLERANCE, compareFolders } from "./compare.js";
 
 type Args = Readonly<Record<string, unknown>>;
 
@@ -171,4 +173,40 @@ export async function cost(argv: Args): Promise<number> {
   }
   for (const r of rows) process.stdout.write(`${r.quantity.padEnd(w[0])}  ${r.value.padEnd(w[1])}  ${r.source}\n`);
   return EXIT.ok;
+}
+
+/** `speedbound merge OUT DIR…`: join shard folders and write the tables. */
+export async function merge(argv: Args, rawArgs: ReadonlyArray<string>): Promise<number> {
+  const out = resolve(String(argv.out));
+  const dirs = ((argv.dirs as string[] | undefined) ?? []).map((d) => resolve(d));
+  const merged = mergeShards(dirs);
+  mkdirOrFail(out);
+  writeMerged(out, merged);
+  const started = new Date();
+  const { paper } = await writeOutputs(merged.spec, out);
+  writeFileAtomic(
+    join(out, OUT_FILES.manifest),
+    JSON.stringify(buildManifest({ argv: rawArgs, spec: merged.spec, workers: 0, shard: null, started, ended: new Date(), summary: null, extra: { merged_from: dirs } }), null, 2) + "\n",
+  );
+  process.stdout.write(formatComparison(paper) + "\n");
+  process.stdout.write(`speedbound: merged ${merged.shards} shard(s), ${merged.records.length} cells, into ${out}\n`);
+  return EXIT.ok;
+}
+
+function mkdirOrFail(dir: string): void {
+  try {
+    mkdirSync(dir, { recursive: true });
+  } catch (e) {
+    throw new InputError(`${dir}: cannot create (${(e as NodeJS.ErrnoException).code ?? String(e)})`);
+  }
+}
+
+/** `speedbound compare OLD NEW`: exit 1 on a regression. */
+export async function compare(argv: Args): Promise<number> {
+  const tolerance = argv.tolerance === undefined ? DEFAULT_SPEED_TOLERANCE : Number(argv.tolerance);
+  if (!(tolerance > 0) || !Number.isFinite(tolerance)) throw new InputError(`--tolerance: '${String(argv.tolerance)}' is not a positive number`);
+  const findings = compareFolders(resolve(String(argv.old)), resolve(String(argv.new)), tolerance);
+  if (findings.length === 0) process.stdout.write("speedbound compare: no change beyond intervals and tolerance\n");
+  for (const f of findings) process.stdout.write(`${f.regression ? "REGRESSION" : "change    "}  ${f.kind.padEnd(12)}  ${f.what}: ${f.detail}\n`);
+  return findings.some((f) => f.regression) ? EXIT.failures : EXIT.ok;
 }

@@ -40,13 +40,7 @@ export interface SpectralTask {
   readonly stop: Int32Array;
 }
 
-/** Test-only: a task that crashes its worker thread or throws (used to test error isolation). */
-export interface FaultTask {
-  readonly type: "fault";
-  readonly mode: "throw" | "exit";
-}
-
-export type Task = TruthSliceTask | TrialsTask | SpectralTask | FaultTask;
+export type Task = TruthSliceTask | TrialsTask | SpectralTask;
 
 /** Worker answer to a truth slice (the instance descriptors come along for instances.csv). */
 export interface TruthSliceAnswer {

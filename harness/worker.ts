@@ -39,6 +39,7 @@ export default function handle(task: Task): TruthSliceAnswer | TrialsAnswer | Sp
       return { result, wall_ns: elapsed(start), meta: inst.meta, seed: inst.seed, mean: meanCost(inst.problem) };
     }
     case "trials": {
+      injectFault(task.ctx);
       const inst = instanceFor(task.ctx);
       if (task.solver === "walk") {
         if (inst.problem.kind !== "cnf") throw new Error("walk applies to CNF instances only");
@@ -72,9 +73,19 @@ export default function handle(task: Task): TruthSliceAnswer | TrialsAnswer | Sp
       const row = computeSpectral(inst.problem, task.optimum, task.b, task.eta);
       return { row, wall_ns: elapsed(start) };
     }
-    case "fault": {
-      if (task.mode === "exit") process.exit(70);
-      throw new Error("deliberate fault (test-only task)");
-    }
   }
+}
+
+/**
+ * Test hook: SPEEDBOUND_TEST_FAULT=MODE:N:INDEX makes the trials cells of instance (N, INDEX) fail, with
+ * MODE "throw" (an exception) or "exit" (the worker thread dies), so tests can check that one failing cell
+ * becomes an error row and the study goes on. Unset in normal use.
+ */
+function injectFault(ctx: InstanceContext): void {
+  const spec = process.env.SPEEDBOUND_TEST_FAULT;
+  if (!spec) return;
+  const [mode, n, index] = spec.split(":");
+  if (Number(n) !== ctx.n || Number(index) !== ctx.index) return;
+  if (mode === "exit") process.exit(70);
+  throw new Error(`injected fault for n=${ctx.n} instance ${ctx.index} (SPEEDBOUND_TEST_FAULT)`);
 }

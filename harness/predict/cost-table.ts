@@ -1,0 +1,81 @@
+/**
+ * Bridges the study's cost-model options (StudySpec.costModel, from the command line) to the cost model of
+ * cost-model.ts: resolved options, the `speedbound cost` table, and the seconds-per-query function the
+ * comparison and crossover estimates use.
+ */
+import type { StudySpec } from "../study.js";
+import { numberOption } from "../resolve.js";
+import {
+  COST_MODEL_DEFAULTS,
+  type CostModelOptions,
+  annealStepToffolis,
+  describeCostModel,
+  quantumSeconds,
+  toffolisPerQuery,
+  walkStepToffolis,
+} from "./cost-model.js";
+
+/** The cost-model options of a study. */
+export function costModelOptions(c: StudySpec["costModel"]): CostModelOptions {
+  return {
+    ...COST_MODEL_DEFAULTS,
+    toffoliSeconds: c.toffoliSeconds,
+    factories: c.factories,
+    classicalParallelism: c.classicalParallelism,
+    ...(c.oracleToffolis === null ? {} : { oracleToffolisOverride: c.oracleToffolis }),
+    ...(c.walkStepToffolis === null ? {} : { walkStepToffolis: c.walkStepToffolis }),
+    ...(c.annealStepToffolis === null ? {} : { annealStepToffolis: c.annealStepToffolis }),
+  };
+}
+
+/** Rows of the `speedbound cost` table from the command-line options of the cost-model group. */
+export function costModelRows(argv: Readonly<Record<string, unknown>>): Array<{ quantity: string; value: string; source: string }> {
+  const optional = (name: string): number | null => (argv[name] === undefined ? null : numberOption(argv, name));
+  return describeCostModel(
+    costModelOptions({
+      toffoliSeconds: (numberOption(argv, "toffoli-us") as number) * 1e-6,
+      factories: numberOption(argv, "factories") as number,
+      classicalParallelism: numberOption(argv, "classical-parallelism") as number,
+      oracleToffolis: optional("oracle-toffolis"),
+      walkStepToffolis: optional("walk-step-toffolis"),
+      annealStepToffolis: optional("anneal-step-toffolis"),
+    }),
+  );
+}
+
+/** Size facts of a family at size n that the Toffoli counts need (mean clauses or terms of the instances). */
+export interface FamilyShape {
+  readonly kind: "ksat" | "ising";
+  readonly clausesPerVariable: number;
+  readonly k: number;
+  readonly termsAt: (n: number) => number;
+  readonly order: number;
+}
+
+/**
+ * For k-SAT the Metropolis update's local field is the sum over the ≈ m·k/n clauses holding the variable, so
+ * the anneal step is costed with the clauses as its terms and k as their order.
+ *
+ * Quantum seconds per query for a predictor at size n: Toffolis per oracle query (plus diffusion), or per
+ * reversible solver step times the steps of one trial for the amplified solvers (their "queries" are trial runs).
+ */
+export function secondsPerQuery(
+  spec: StudySpec,
+  shape: FamilyShape,
+  stepsPerTrial: (predictor: string, n: number) => number,
+): (family: string, predictor: string, n: number) => number {
+  const options = costModelOptions(spec.costModel);
+  return (_family, predictor, size) => {
+    // The crossover search evaluates real-valued sizes; circuits exist for whole n only.
+    const n = Math.max(1, Math.round(size));
+    const clauses = Math.max(1, Math.round(shape.clausesPerVariable * n));
+    const dims = shape.kind === "ksat"
+      ? { n, clauses, k: shape.k, terms: clauses, order: shape.k }
+      : { n, terms: Math.max(1, Math.round(shape.termsAt(n))), order: shape.order };
+    let toffolis: number;
+    if (predictor === "amplified-walk") toffolis = walkStepToffolis(dims, options).toffolis * stepsPerTrial(predictor, n);
+    else if (predictor === "amplified-anneal") toffolis = annealStepToffolis(dims, options).toffolis * stepsPerTrial(predictor, n);
+    else toffolis = toffolisPerQuery(shape.kind, dims, options).toffolis;
+    return quantumSeconds(1, toffolis, options);
+  };
+}

@@ -1,0 +1,107 @@
+/**
+ * The paper outputs of a study, rebuilt from its tables: sizes.csv (quantiles over instances with bootstrap
+ * intervals), fits.csv (scaling exponents), comparison.csv (each classical solver against each predictor, with
+ * crossover estimates under the cost model), table.tex, table.md and scaling-FAMILY.svg.
+ */
+import { join } from "node:path";
+import type { StudySpec } from "../study.js";
+import type { Tables } from "./tables.js";
+import { writeCsv } from "./csv.js";
+import { writeFileAtomic } from "../files.js";
+import {
+  COMPARISON_COLUMNS,
+  FIT_COLUMNS,
+  SIZE_COLUMNS,
+  compareMethods,
+  fitScaling,
+  summariseSizes,
+  type ComparisonRow,
+  type FitRow,
+  type SizeRow,
+} from "./summarise.js";
+import { comparisonLatex } from "./latex.js";
+import { comparisonMarkdown } from "./markdown.js";
+import { comparisonLegend, comparisonTerminalTable } from "./terminal-table.js";
+import { scalingPlotSvg } from "./plot.js";
+import { secondsPerQuery, type FamilyShape } from "../predict/cost-table.js";
+
+/** The paper outputs, also returned for printing. */
+export interface PaperOutputs {
+  readonly sizes: SizeRow[];
+  readonly fits: FitRow[];
+  readonly comparison: ComparisonRow[];
+}
+
+/** Bootstrap seed of the report (fixed, so tables rebuild identically; stated in results/README.md). */
+export const REPORT_BOOTSTRAP_SEED = "speedbound-report";
+
+/** Builds and writes the paper outputs of a study folder. */
+export async function writePaperOutputs(spec: StudySpec, out: string, tables: Tables): Promise<PaperOutputs> {
+  const options = { resamples: spec.report.resamples, seed: REPORT_BOOTSTRAP_SEED };
+  const sizes = summariseSizes(tables.runs, tables.predictions, options);
+  const fits = fitScaling(tables.runs, tables.predictions, { ...options, fitFrom: spec.report.fitFrom });
+  const perQuery = secondsPerQuery(spec, familyShape(spec, tables), (predictor, n) => stepsPerTrial(spec, sizes, predictor, n));
+  const comparison = compareMethods(fits, perQuery, { parallelism: spec.costModel.classicalParallelism });
+  writeCsv(join(out, "sizes.csv"), sizes, SIZE_COLUMNS as string[]);
+  writeCsv(join(out, "fits.csv"), fits, FIT_COLUMNS as string[]);
+  writeCsv(join(out, "comparison.csv"), comparison, COMPARISON_COLUMNS as string[]);
+  writeFileAtomic(join(out, "table.tex"), comparisonLatex(comparison));
+  writeFileAtomic(join(out, "table.md"), comparisonMarkdown(comparison));
+  if (sizes.length > 0) writeFileAtomic(join(out, `scaling-${spec.family}.svg`), await scalingPlotSvg(sizes, fits, spec.family));
+  return { sizes, fits, comparison };
+}
+
+/** The comparison as an aligned terminal table with its legend (printed at the end of `run`). */
+export function formatComparison(paper: PaperOutputs): string {
+  if (paper.comparison.length === 0) return "speedbound: no solver/predictor pair could be compared (too few sizes for fits?)";
+  return `${comparisonTerminalTable(paper.comparison)}\n${comparisonLegend(paper.comparison)}`;
+}
+
+/**
+ * Size facts for the Toffoli counts: clauses per variable for CNF (the density, or the folder's mean), and the
+ * number of terms at any n for spin families (the family's formula; for coupling files, the largest measured
+ * size's mean scaled as n^order, since the crossover may lie beyond the measured range).
+ */
+function familyShape(spec: StudySpec, tables: Tables): FamilyShape {
+  const rows = tables.instances;
+  const mean = (xs: number[]): number => (xs.length ? xs.reduce((a, b) => a + b, 0) / xs.length : 0);
+  if (spec.family === "ksat" || spec.family === "cnf") {
+    const density = spec.family === "ksat" ? Number(spec.familyParams.density) : mean(rows.map((r) => Number(r.clauses) / r.n));
+    const k = spec.family === "ksat" ? Number(spec.familyParams.k) : 3;
+    return { kind: "ksat", clausesPerVariable: density, k, termsAt: () => 0, order: 0 };
+  }
+  const binom = (n: number, p: number): number => {
+    let c = 1;
+    for (let i = 0; i < p; i++) c = (c * (n - i)) / (i + 1);
+    return c;
+  };
+  switch (spec.family) {
+    case "sk":
+      return { kind: "ising", clausesPerVariable: 0, k: 0, termsAt: (n) => binom(n, 2), order: 2 };
+    case "pspin": {
+      const p = Number(spec.familyParams.p);
+      return { kind: "ising", clausesPerVariable: 0, k: 0, termsAt: (n) => binom(n, p), order: p };
+    }
+    case "maxcut": {
+      const d = Number(spec.familyParams.degree);
+      return { kind: "ising", clausesPerVariable: 0, k: 0, termsAt: (n) => (n * d) / 2, order: 2 };
+    }
+    default: {
+      const largest = rows.reduce((m, r) => Math.max(m, r.n), 1);
+      const terms = mean(rows.filter((r) => r.n === largest).map((r) => Number(r.terms))) || 1;
+      return { kind: "ising", clausesPerVariable: 0, k: 0, termsAt: (n) => terms * (n / largest) ** 2, order: 2 };
+    }
+  }
+}
+
+/**
+ * Elementary steps of one classical trial, which one amplified "query" (a reversible trial run) must execute in
+ * full: walk, flips per trial; anneal, sweeps × n at the optimal run length of the largest measured size.
+ */
+function stepsPerTrial(spec: StudySpec, sizes: ReadonlyArray<SizeRow>, predictor: string, n: number): number {
+  if (predictor === "amplified-walk") return spec.walkFlipsPerVariable * n;
+  const chosen = sizes.filter((r) => r.method === predictor && r.optimal_run_length && r.run_length !== null);
+  const largest = chosen.reduce<SizeRow | null>((best, r) => (best === null || r.n > best.n ? r : best), null);
+  const sweeps = largest?.run_length ?? Math.max(...spec.sweeps);
+  return sweeps * n;
+}
