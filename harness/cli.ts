@@ -30,7 +30,8 @@ function withOptions(y: Argv, groups: ReadonlyArray<OptionSpec["group"]>, skip: 
     y = y.option(o.name, {
       type: yargsType(o),
       describe: describe(o),
-      default: o.type === "boolean" ? undefined : o.default === undefined ? undefined : String(o.default),
+      // Defaults are applied by resolve.ts, which must tell "not given" from "given the default value".
+      defaultDescription: o.default === undefined ? undefined : String(o.default),
       group: `${o.group[0].toUpperCase()}${o.group.slice(1)} options:`,
       requiresArg: o.type !== "boolean",
     });

@@ -63,6 +63,22 @@ describe("resume after SIGKILL", () => {
     for (const t of TABLES) expect(withoutTiming(dir, t), t).toEqual(withoutTiming(join(root, "whole"), t));
   });
 
+  for (const [signal, code] of [["SIGTERM", 143], ["SIGINT", 130]] as const) {
+    it(`${signal}: stops handing out cells, writes tables and manifest, exits ${code}`, async () => {
+      const dir = join(root, signal);
+      const child = cliAsync(["run", ...STUDY, "--out", dir]);
+      const exited = new Promise<number | null>((resolve) => child.on("exit", (c) => resolve(c)));
+      const deadline = Date.now() + 60_000;
+      while (journalLines(dir) < 5 && Date.now() < deadline) await new Promise((r) => setTimeout(r, 5));
+      child.kill(signal);
+      expect(await exited).toBe(code);
+      expect(journalLines(dir)).toBeLessThan(64);
+      expect(existsSync(join(dir, "runs.csv"))).toBe(true);
+      const manifest = JSON.parse(readFileSync(join(dir, "manifest.json"), "utf8"));
+      expect(manifest.summary.interrupted).toBe(signal);
+    });
+  }
+
   it("refuses to mix a different study into a folder that holds one", () => {
     const r = cli(["run", ...STUDY.map((a) => (a === "resume-1" ? "resume-2" : a)), "--out", join(root, "whole")]);
     expect(r.code).toBe(2);
