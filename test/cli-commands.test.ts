@@ -1,0 +1,131 @@
+// The commands a new user types first: solve, instance, cost, spectral, report and compare, through the
+// compiled CLI.
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { mkdtempSync, readFileSync, rmSync, writeFileSync, mkdirSync, cpSync } from "node:fs";
+import { tmpdir } from "node:os";
+import { join } from "node:path";
+import { cli, readCsv } from "./helpers/cli.js";
+import { HAVE_SATLIB, SATLIB_DIR } from "./helpers/paths.js";
+
+let root = "";
+beforeAll(() => {
+  root = mkdtempSync(join(tmpdir(), "speedbound-cli-"));
+});
+afterAll(() => rmSync(root, { recursive: true, force: true }));
+
+describe("instance and solve", () => {
+  it("instance prints the same DIMACS bytes on every call, and solve reads them back", () => {
+    const args = ["instance", "--family", "ksat", "--k", "3", "--n", "20", "--seed", "7", "--index", "3"];
+    const a = cli(args);
+    expect(a.code, a.stderr).toBe(0);
+    expect(cli(args).stdout).toBe(a.stdout);
+    expect(a.stdout).toMatch(/^p cnf 20 85$/m); // m = round(4.267·20) = 85 at the default density
+    const file = join(root, "x.cnf");
+    writeFileSync(file, a.stdout);
+    const one = cli(["solve", file, "--json", "--workers", "1"]);
+    const two = cli(["solve", file, "--json", "--workers", "2"]);
+    expect(one.code, one.stderr).toBe(0);
+    const r1 = JSON.parse(one.stdout);
+    const r2 = JSON.parse(two.stdout);
+    for (const key of ["variables", "clauses", "optimum", "degeneracy", "satisfiable", "wall_ns"]) expect(r1).toHaveProperty(key);
+    expect(r1.variables).toBe(20);
+    expect(r1.clauses).toBe(85);
+    expect(r1.assignments).toBe(2 ** 20);
+    expect(r2.workers).toBe(2);
+    expect({ ...r2, wall_ns: 0, workers: 0 }).toEqual({ ...r1, wall_ns: 0, workers: 0 });
+  });
+
+  it("solve answers the pigeonhole formula PHP(3 pigeons, 2 holes) as unsatisfiable with optimum 1", () => {
+    // PHP(3,2): 3 "pigeon p sits in some hole" clauses and 2·C(3,2) = 6 "no two pigeons share hole h" clauses.
+    // Unsatisfiable by the pigeonhole principle; dropping one pigeon's clause leaves two pigeons in two holes,
+    // which is satisfiable, so the minimum number of violated clauses is exactly 1.
+    const v = (p: number, h: number) => p * 2 + h + 1;
+    const clauses: number[][] = [];
+    for (let p = 0; p < 3; p++) clauses.push([v(p, 0), v(p, 1)]);
+    for (let h = 0; h < 2; h++) for (let p = 0; p < 3; p++) for (let q = p + 1; q < 3; q++) clauses.push([-v(p, h), -v(q, h)]);
+    const file = join(root, "php.cnf");
+    writeFileSync(file, `p cnf 6 ${clauses.length}\n${clauses.map((c) => `${c.join(" ")} 0`).join("\n")}\n`);
+    const r = JSON.parse(cli(["solve", file, "--json"]).stdout);
+    expect(r.satisfiable).toBe(false);
+    expect(r.optimum).toBe(1);
+  });
+
+  it("instance writes coupling lists for spin families that solve reads", () => {
+    const a = cli(["instance", "--family", "sk", "--n", "12", "--seed", "7"]);
+    expect(a.code, a.stderr).toBe(0);
+    const file = join(root, "sk.txt");
+    writeFileSync(file, a.stdout);
+    const r = JSON.parse(cli(["solve", file, "--json"]).stdout);
+    expect(r.spins).toBe(12);
+    expect(r.terms).toBe(66); // all pairs of 12 spins
+    expect(r.degeneracy % 2).toBe(0); // mirror pairs: E(s) = E(−s) for pair couplings
+    expect(r.optimum).toBeLessThan(0);
+  });
+});
+
+describe("cost, spectral", () => {
+  it("cost prints the model's assumptions with sources and the worked example", () => {
+    const r = cli(["cost"]);
+    expect(r.code, r.stderr).toBe(0);
+    expect(r.stdout).toMatch(/Toffoli time/);
+    expect(r.stdout).toMatch(/arXiv:2011\.04149/);
+    const changed = cli(["cost", "--toffoli-us", "10"]);
+    expect(changed.stdout).toMatch(/10 us/);
+  });
+
+  it("spectral prints one JSON object with the ground-state numerics", () => {
+    const inst = cli(["instance", "--family", "ksat", "--n", "10", "--seed", "7", "--planted"]);
+    const file = join(root, "s.cnf");
+    writeFileSync(file, inst.stdout);
+    const r = cli(["spectral", file, "--b", "0.7", "--eta", "0.5", "--json"]);
+    expect(r.code, r.stderr).toBe(0);
+    const o = JSON.parse(r.stdout);
+    for (const key of ["e0", "e1", "gap", "overlap_start", "overlap_opt", "rounds", "iterations", "residual", "wall_ns"]) expect(o).toHaveProperty(key);
+    expect(o.e0).toBeLessThan(o.e1);
+    expect(o.overlap_start).toBeGreaterThan(0);
+    expect(o.overlap_start).toBeLessThanOrEqual(1);
+  });
+});
+
+describe.skipIf(!HAVE_SATLIB)("a study over a folder of DIMACS files", () => {
+  it("runs --family cnf --from DIR over SATLIB files and finds every uf20 file satisfiable", () => {
+    const dir = join(root, "uf20");
+    mkdirSync(dir);
+    for (const f of ["uf20-01.cnf", "uf20-02.cnf", "uf20-03.cnf", "uf20-04.cnf"]) cpSync(join(SATLIB_DIR, "uf20-91", f), join(dir, f));
+    cpSync(join(SATLIB_DIR, "original-format", "uf20-01.cnf"), join(dir, "uf20-01-original.cnf"));
+    const out = join(root, "uf20-out");
+    const r = cli(["run", "--family", "cnf", "--from", dir, "--solvers", "exhaustive,walk", "--trials", "50", "--predict", "grover", "--out", out]);
+    expect(r.code, r.stderr).toBe(0);
+    const { header, rows } = readCsv(join(out, "instances.csv"));
+    expect(rows).toHaveLength(5);
+    const sat = header.indexOf("satisfiable");
+    for (const row of rows) expect(row[sat]).toBe("true"); // SATLIB: every uf20-91 formula is satisfiable
+  });
+});
+
+describe("report and compare", () => {
+  it("report rebuilds the tables; compare finds no regression between a run and its copy, and flags changed ground truth", () => {
+    const a = join(root, "night1");
+    const study = ["run", "--family", "ksat", "--n", "8:14:2", "--instances", "4", "--seed", "nightly", "--solvers", "exhaustive,walk", "--trials", "40", "--predict", "grover"];
+    expect(cli([...study, "--out", a]).code).toBe(0);
+    const before = readFileSync(join(a, "instances.csv"), "utf8");
+    rmSync(join(a, "instances.csv"));
+    const rep = cli(["report", a, "--fit-from", "10"]);
+    expect(rep.code, rep.stderr).toBe(0);
+    expect(readFileSync(join(a, "instances.csv"), "utf8")).toBe(before);
+    const b = join(root, "night2");
+    cpSync(a, b, { recursive: true });
+    const same = cli(["compare", a, b]);
+    expect(same.code, same.stdout).toBe(0);
+    // Corrupt one optimum in the copy's journal: the same seed can never give different ground truth.
+    const journal = readFileSync(join(b, "journal.jsonl"), "utf8").split("\n");
+    const i = journal.findIndex((l) => l.includes('"kind":"truth"'));
+    const rec = JSON.parse(journal[i]);
+    rec.optimum += 1;
+    journal[i] = JSON.stringify(rec);
+    writeFileSync(join(b, "journal.jsonl"), journal.join("\n"));
+    const bad = cli(["compare", a, b]);
+    expect(bad.code).toBe(1);
+    expect(bad.stdout).toMatch(/REGRESSION\s+ground-truth/);
+  });
+});
