@@ -92,6 +92,20 @@ async function main(): Promise<number> {
           .option("tolerance", { type: "string", default: "0.25", describe: "relative change in time per step that counts as a change" }),
       async (a) => set(await commands.compare(a)),
     )
+    .command(
+      "slurm",
+      "write sbatch scripts that run a study as a Slurm job array of --shards slices plus a merge job",
+      (y) =>
+        withOptions(y, STUDY_GROUPS, ["shard", "workers"])
+          .option("shards", { type: "string", demandOption: true, describe: "number of array tasks (study slices)" })
+          .option("cpus-per-task", { type: "string", default: "2", describe: "cores per array task (the run's --workers)" })
+          .option("time", { type: "string", describe: "time limit per array task (Slurm format, e.g. 04:00:00)" })
+          .option("partition", { type: "string", describe: "Slurm partition" })
+          .option("account", { type: "string", describe: "Slurm account" })
+          .option("mem-per-cpu", { type: "string", describe: "memory per core (Slurm format, e.g. 2G)" })
+          .option("job-name", { type: "string", default: "speedbound", describe: "job name" }),
+      async (a) => set(await commands.slurm(a, args)),
+    )
     .command("cost", "print the fault-tolerant cost model's assumptions and a worked example", (y) => withOptions(y, ["cost model"]), async (a) => set(await commands.cost(a)))
     .demandCommand(1, "give a command (see --help)")
     .strict()

@@ -49,7 +49,7 @@ export const STUDY_OPTIONS: ReadonlyArray<OptionSpec> = [
   { name: "degree", type: "integer", group: "family", default: 3, min: 1, max: 64, description: "maxcut: vertex degree d of the random regular graph" },
   { name: "solvers", type: "list", group: "solvers", default: "exhaustive,walk,anneal", choices: SOLVER_NAMES, description: "classical solvers to time (exhaustive always runs: it is the ground truth)" },
   { name: "trials", type: "integer", group: "solvers", default: 200, min: 1, max: 1e9, description: "walk/anneal: independent trials per instance and run length" },
-  { name: "walk-flips", type: "string", group: "solvers", default: "3n", description: "walk: flips per trial before a restart (a number, or Kn for K·n)" },
+  { name: "walk-flips", type: "string", group: "solvers", default: "3n", description: "walk: flips per trial before a restart, as K·n (e.g. 3n, Schöning's choice)" },
   { name: "sweeps", type: "list", group: "solvers", default: "10,30,100,300", description: "anneal: sweeps per trial, one run per value" },
   { name: "schedule", type: "string", group: "solvers", default: "geometric", choices: ["linear", "geometric"], description: "anneal: inverse-temperature schedule" },
   { name: "beta", type: "string", group: "solvers", description: "anneal: inverse-temperature range START:END (default: derived from the instance's energy scale)" },

@@ -103,6 +103,21 @@ describe.skipIf(!HAVE_SATLIB)("a study over a folder of DIMACS files", () => {
   });
 });
 
+describe("slurm", () => {
+  it("writes the array, merge and submit scripts for a valid study, and refuses a bad one", () => {
+    const out = join(root, "cluster");
+    const r = cli(["slurm", "--family", "ksat", "--n", "8:12:2", "--instances", "2", "--shards", "3", "--cpus-per-task", "2", "--out", out]);
+    expect(r.code, r.stderr).toBe(0);
+    const array = readFileSync(join(out, "slurm", "array.sbatch"), "utf8");
+    expect(array).toMatch(/#SBATCH --array=1-3/);
+    expect(array).toMatch(/--shard "\$SLURM_ARRAY_TASK_ID\/3"/);
+    expect(readFileSync(join(out, "slurm", "submit.sh"), "utf8")).toMatch(/afterok/);
+    const bad = cli(["slurm", "--family", "ksat", "--n", "20:10", "--shards", "3", "--out", join(root, "cluster2")]);
+    expect(bad.code).toBe(2);
+    expect(bad.stderr).toMatch(/--n: range 20:10 runs backwards/);
+  });
+});
+
 describe("report and compare", () => {
   it("report rebuilds the tables; compare finds no regression between a run and its copy, and flags changed ground truth", () => {
     const a = join(root, "night1");
