@@ -50,6 +50,7 @@ const SHORT: Readonly<Record<Measure, string>> = {
   tts_ns: "TTS, ns",
   tts_work: "steps to solution",
   queries: "queries",
+  steps: "steps in amplified runs",
 };
 
 interface Series {
