@@ -12,6 +12,7 @@ import type { StudySpec } from "./study.js";
 import { sizeOf } from "./model/problem.js";
 import { CNF_EXACT_MAX_VARIABLES } from "../solvers/exhaustive-cnf.js";
 import { SPIN_EXACT_MAX } from "../solvers/exhaustive-spin.js";
+import { lanczosMaxN } from "./predict/lanczos.js";
 
 type Argv = Readonly<Record<string, unknown>>;
 
@@ -159,7 +160,10 @@ export function resolveStudy(argv: Argv): StudySpec {
     }
   }
   const solvers = listOption(argv, "solvers", SOLVER_NAMES).filter((s) => s !== "exhaustive");
-  if (solvers.includes("walk") && !isCnf) throw new InputError(`--solvers: walk (Schöning) applies to k-SAT/CNF families only, not '${family}'`);
+  if (solvers.includes("walk") && !isCnf) {
+    if (argv.solvers !== undefined) throw new InputError(`--solvers: walk (Schöning) applies to k-SAT/CNF families only, not '${family}'`);
+    solvers.splice(solvers.indexOf("walk"), 1); // the default list names it for k-SAT studies
+  }
   const predictors = listOption(argv, "predict", PREDICTOR_NAMES);
   if (predictors.includes("amplified-walk") && !solvers.includes("walk")) {
     if (argv.predict !== undefined) throw new InputError(`--predict: amplified-walk needs the walk solver in --solvers`);
@@ -168,6 +172,11 @@ export function resolveStudy(argv: Argv): StudySpec {
   if (predictors.includes("amplified-anneal") && !solvers.includes("anneal")) {
     if (argv.predict !== undefined) throw new InputError(`--predict: amplified-anneal needs the anneal solver in --solvers`);
     predictors.splice(predictors.indexOf("amplified-anneal"), 1);
+  }
+  // Spectral numerics keep a few 2^n state vectors: 2 GiB allows n ≤ 24 (25 for spin-flip-symmetric models).
+  const spectralMax = lanczosMaxN(family === "sk" || family === "maxcut" ? "symmetric" : "all");
+  if (predictors.includes("spectral") && largest > spectralMax) {
+    throw new InputError(`--predict: spectral needs n ≤ ${spectralMax} (state vectors within 2 GiB), but --n reaches ${largest}`);
   }
   const walkFlipsText = String(argv["walk-flips"] ?? spec("walk-flips").default);
   const wf = /^(\d+(?:\.\d+)?)n$/.exec(walkFlipsText);

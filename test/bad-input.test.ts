@@ -35,6 +35,7 @@ const cases: Array<{ name: string; args: (out: string) => string[]; pattern: Reg
   { name: "unknown predictor", args: (o) => ["run", "--predict", "qaoa", "--out", o], pattern: /--predict: unknown value 'qaoa'/ },
   { name: "unknown option", args: (o) => ["run", "--sizes", "10", "--out", o], pattern: /Unknown argument: sizes/ },
   { name: "size beyond the exact limit", args: (o) => ["run", "--n", "30:70:10", "--out", o], pattern: /--n: size 70 is beyond the exact-enumeration limit/ },
+  { name: "spectral beyond its memory limit", args: (o) => ["run", "--family", "ksat", "--n", "20:26:2", "--predict", "spectral", "--out", o], pattern: /--predict: spectral needs n ≤ 24/ },
   { name: "walk on a spin family", args: (o) => ["run", "--family", "sk", "--solvers", "walk", "--out", o], pattern: /--solvers: walk .* applies to k-SAT\/CNF families only/ },
   { name: "impossible regular graph", args: (o) => ["run", "--family", "maxcut", "--n", "7", "--degree", "3", "--out", o], pattern: /--n: no simple 3-regular graph on 7 vertices/ },
   { name: "missing input folder", args: (o) => ["run", "--family", "cnf", "--from", join(root, "nope"), "--out", o], pattern: /--from: folder '.*nope' does not exist/ },

@@ -7,6 +7,17 @@ import type { Problem } from "../model/problem.js";
 import { sizeOf } from "../model/problem.js";
 import { InputError } from "../errors.js";
 import { spectralPredict, DEFAULT_SPECTRAL_OPTIONS } from "./spectral.js";
+import { lanczosMaxN } from "./lanczos.js";
+import { hasFlipSymmetry } from "../model/ising.js";
+
+/**
+ * Largest n the spectral numerics accept for a problem: the Lanczos memory budget (2 GiB), which allows one
+ * more variable when the global spin flip halves the space.
+ */
+export function spectralLimit(problem: Problem): number {
+  const symmetric = problem.kind === "ising" && hasFlipSymmetry(problem.ising);
+  return Math.min(COST_VECTOR_MAX, lanczosMaxN(symmetric ? "symmetric" : "all"));
+}
 
 /**
  * Runs the spectral predictor at one (b, η).
@@ -14,7 +25,8 @@ import { spectralPredict, DEFAULT_SPECTRAL_OPTIONS } from "./spectral.js";
  */
 export function computeSpectral(problem: Problem, optimum: number | null, b: number, eta: number): Record<string, number | string | boolean | null> {
   const n = sizeOf(problem);
-  if (n > COST_VECTOR_MAX) throw new InputError(`spectral: n = ${n} is beyond the limit of ${COST_VECTOR_MAX} for exact state-vector numerics`);
+  const limit = spectralLimit(problem);
+  if (n > limit) throw new InputError(`spectral: n = ${n} is beyond the limit of ${limit} for exact state-vector numerics in 2 GiB`);
   const costs = new Float64Array(2 ** n);
   fillCostVector(problem, costs);
   let best = optimum;

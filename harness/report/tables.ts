@@ -10,6 +10,7 @@ import { ttsFromCounts } from "../stats/tts.js";
 import { groverKnown, groverUnknown } from "../predict/grover.js";
 import { minFinding } from "../predict/min-finding.js";
 import { amplifyTrial } from "../predict/amplify.js";
+import { cutValue } from "../families/maxcut.js";
 
 /** The three per-observation tables. */
 export interface Tables {
@@ -40,6 +41,8 @@ export function buildTables(spec: StudySpec, records: ReadonlyArray<JournalRecor
     optimum: t.optimum,
     degeneracy: t.degeneracy,
     satisfiable: t.optimum === null || !isCnf(spec) ? null : t.optimum === 0,
+    // MaxCut: the optimum energy Σ_edges s_i s_j as the largest cut, (edges − E)/2.
+    ...(spec.family === "maxcut" && t.optimum !== null ? { max_cut: cutValue(Number(t.meta.edges), t.optimum) } : {}),
     mean_cost: t.mean,
     status: t.status,
   }));
