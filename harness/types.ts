@@ -42,6 +42,8 @@ export interface RunRow {
   tts_ns_high: number | null;
   /** Work to solution with 99% confidence (elementary steps). */
   tts_work: number | null;
+  /** Lower end of its interval (a lower bound when no trial succeeded). */
+  tts_work_low: number | null;
   message: string;
 }
 

@@ -18,7 +18,7 @@ function run(partial: Partial<RunRow> & Pick<RunRow, "n" | "instance" | "solver"
   return {
     family: "ksat", run_length: null, status: "ok", wall_ns: 1, work: 1, trials: null, successes: null, p: null,
     p_low: null, p_high: null, work_per_trial: null, wall_ns_per_trial: null, tts_ns: null, tts_ns_low: null,
-    tts_ns_high: null, tts_work: null, message: "", ...partial,
+    tts_ns_high: null, tts_work: null, tts_work_low: null, message: "", ...partial,
   };
 }
 

@@ -167,7 +167,7 @@ const cellKey = (family: string, kind: MethodKind, method: string, runLength: nu
 const seriesKey = (family: string, kind: MethodKind, method: string): string => [family, kind, method].join(sep);
 
 function lowColumn(measure: Measure): string | null {
-  return measure === "tts_ns" ? "tts_ns_low" : measure === "queries" ? "queries_low" : null;
+  return measure === "tts_ns" ? "tts_ns_low" : measure === "tts_work" ? "tts_work_low" : measure === "queries" ? "queries_low" : null;
 }
 
 function collect(runs: ReadonlyArray<RunRow>, predictions: ReadonlyArray<PredictionRow>): Collected {

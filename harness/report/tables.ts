@@ -53,7 +53,7 @@ export function buildTables(spec: StudySpec, records: ReadonlyArray<JournalRecor
       family: spec.family, n: t.n, instance: t.index, solver: "exhaustive", run_length: null, status: t.status,
       wall_ns: t.wall_ns, work: t.assignments, trials: null, successes: null, p: null, p_low: null, p_high: null,
       work_per_trial: null, wall_ns_per_trial: null, tts_ns: t.status === "ok" ? t.wall_ns : null, tts_ns_low: null,
-      tts_ns_high: null, tts_work: t.status === "ok" ? t.assignments : null, message: t.message,
+      tts_ns_high: null, tts_work: t.status === "ok" ? t.assignments : null, tts_work_low: null, message: t.message,
     });
   }
   for (const r of runsRec) runs.push(runRow(spec, r));
@@ -110,6 +110,7 @@ function runRow(spec: StudySpec, r: RunRecord): RunRow {
     work_per_trial: workPerTrial, wall_ns_per_trial: wallPerTrial,
     tts_ns: finite(tts?.tts), tts_ns_low: finite(tts?.tts_low), tts_ns_high: finite(tts?.tts_high),
     tts_work: finite(ttsWork?.tts),
+    tts_work_low: finite(ttsWork?.tts_low),
     message: r.message,
   };
 }
