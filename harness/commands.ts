@@ -97,7 +97,7 @@ export async function solve(argv: Args): Promise<number> {
   if (n > exactLimit(problem)) throw new InputError(`${file}: n = ${n} is beyond the exact-enumeration limit of ${exactLimit(problem)}`);
   const workers = workersOf(argv);
   const pool = new WorkerPool(workers);
-  const stop = new Int32Array(new SharedArrayBuffer(4));
+  const stop = new Int32Array(new SharedArrayBuffer(8));
   const ctx = { family: problem.kind === "cnf" ? "cnf" : "ising", params: {}, masterSeed: "", n, index: 0, file: resolve(file) };
   const start = process.hrtime.bigint();
   let answers: TruthSliceAnswer[];

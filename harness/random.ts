@@ -70,19 +70,22 @@ export class Rng {
    * interval", ACM TOMACS 29 (2019)), for bound in [1, 2^32].
    */
   below(bound: number): number {
-    // Multiply-high in two 16-bit halves keeps everything exact in doubles.
+    // x·bound needs up to 64 bits; split x into 16-bit halves so every product stays exact in a double.
+    // For bound ≤ 2^21 this gives exactly the draws of the plain product (which is then exact too).
     let x = this.nextU32();
-    let m = x * bound;
-    let l = m % 4294967296;
+    let hi = (x >>> 16) * bound;
+    let mid = (hi % 65536) * 65536 + (x & 0xffff) * bound;
+    let l = mid % 4294967296;
     if (l < bound) {
       const threshold = (4294967296 - bound) % bound;
       while (l < threshold) {
         x = this.nextU32();
-        m = x * bound;
-        l = m % 4294967296;
+        hi = (x >>> 16) * bound;
+        mid = (hi % 65536) * 65536 + (x & 0xffff) * bound;
+        l = mid % 4294967296;
       }
     }
-    return Math.floor(m / 4294967296);
+    return Math.floor(hi / 65536) + Math.floor(mid / 4294967296);
   }
 
   /** Standard normal deviate (Marsaglia polar method; the second deviate is kept for the next call). */

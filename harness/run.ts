@@ -47,6 +47,9 @@ export interface RunSummary {
   readonly tornJournalLine: boolean;
 }
 
+/** How often the cell limit is checked (ms); a cell may overrun its limit by about this much. */
+export const LIMIT_POLL_MS = 25;
+
 /** File names inside an output folder. */
 export const OUT_FILES = { spec: "spec.json", journal: "journal.jsonl", manifest: "manifest.json" } as const;
 
@@ -132,16 +135,32 @@ export async function runStudy(spec: StudySpec, options: RunOptions): Promise<Ru
     options.progress.tick(r.key);
   };
 
-  /** A fresh stop flag for one cell, raised by the cell limit, the budget or a signal's grace period. */
+  /**
+   * A fresh stop flag for one cell, raised by the cell limit, the budget or a signal's grace period. Element 1
+   * is set by the worker when it starts computing, so the cell limit counts computing time, not time spent
+   * waiting in the pool's queue (checked every {@link LIMIT_POLL_MS} ms).
+   */
+  const started = new Map<Int32Array, number>();
+  const limitTimer =
+    options.cellLimitMs === null
+      ? null
+      : setInterval(() => {
+          const now = Date.now();
+          for (const flag of running) {
+            if (Atomics.load(flag, 1) === 0) continue;
+            const t0 = started.get(flag);
+            if (t0 === undefined) started.set(flag, now);
+            else if (now - t0 >= (options.cellLimitMs as number)) Atomics.store(flag, 0, 1);
+          }
+        }, LIMIT_POLL_MS);
   const withStopFlag = async <T>(body: (flag: Int32Array) => Promise<T>): Promise<T> => {
-    const flag = new Int32Array(new SharedArrayBuffer(4));
+    const flag = new Int32Array(new SharedArrayBuffer(8));
     running.add(flag);
-    const limit = options.cellLimitMs === null ? null : setTimeout(() => Atomics.store(flag, 0, 1), options.cellLimitMs);
     try {
       return await body(flag);
     } finally {
-      if (limit) clearTimeout(limit);
       running.delete(flag);
+      started.delete(flag);
     }
   };
 
@@ -185,7 +204,7 @@ export async function runStudy(spec: StudySpec, options: RunOptions): Promise<Ru
         ...base, kind: "run", solver: cell.method, run_length: cell.runLength ?? 0, trials: 0, successes: 0, work: 0,
         best: null, beta_start: null, beta_end: null, status: "error", wall_ns: 0, message: "", ...extra,
       });
-      if (truth.status !== "ok" || truth.optimum === null) return rec({ message: "no ground truth for this instance" });
+      if (truth.status !== "ok" || truth.optimum === null) return rec(withoutTruth(truth));
       return withStopFlag(async (flag) => {
         try {
           const a = await pool.run<TrialsAnswer>({
@@ -206,7 +225,7 @@ export async function runStudy(spec: StudySpec, options: RunOptions): Promise<Ru
     const rec = (extra: Partial<SpectralRecord>): SpectralRecord => ({
       ...base, kind: "spectral", b: cell.runLength ?? 0, row: {}, status: "error", wall_ns: 0, message: "", ...extra,
     });
-    if (truth.status !== "ok" || truth.optimum === null) return rec({ message: "no ground truth for this instance" });
+    if (truth.status !== "ok" || truth.optimum === null) return rec(withoutTruth(truth));
     return withStopFlag(async (flag) => {
       try {
         const a = await pool.run<SpectralAnswer>({ type: "spectral", ctx: ctxOf(inst), b: cell.runLength ?? 0, eta: spec.spectral.eta, optimum: truth.optimum as number, stop: flag });
@@ -257,6 +276,7 @@ export async function runStudy(spec: StudySpec, options: RunOptions): Promise<Ru
     }
   } finally {
     if (budgetTimer) clearTimeout(budgetTimer);
+    if (limitTimer) clearInterval(limitTimer);
     if (graceTimer) clearTimeout(graceTimer);
     process.off("SIGINT", onSignal);
     process.off("SIGTERM", onSignal);
@@ -268,6 +288,16 @@ export async function runStudy(spec: StudySpec, options: RunOptions): Promise<Ru
     cellsTotal, cellsDone: state.done, cellsResumed: state.resumed, errors: state.errors, censored: state.censored,
     skipped: state.skipped, completeSizes, incompleteSizes, interrupted: state.signal, tornJournalLine: previous.tornLine,
   };
+}
+
+/**
+ * A cell that cannot run because its instance has no ground truth: censored (nothing measured, a lower bound of
+ * zero) when a limit stopped the enumeration, an error when the enumeration failed.
+ */
+function withoutTruth(truth: TruthRecord): { status: "censored" | "error"; message: string } {
+  return truth.status === "censored"
+    ? { status: "censored", message: "not run: the ground truth was stopped by a time limit" }
+    : { status: "error", message: `not run: no ground truth (${truth.message})` };
 }
 
 /** One-line message of an error (worker crashes arrive as Errors too). */

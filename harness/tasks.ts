@@ -11,7 +11,7 @@ export interface TruthSliceTask {
   readonly type: "truth-slice";
   readonly ctx: InstanceContext;
   readonly slice: Slice;
-  /** Int32Array on a SharedArrayBuffer; element 0 non-zero = stop. */
+  /** Int32Array on a SharedArrayBuffer: element 0 non-zero = stop; element 1 set by the worker when it starts. */
   readonly stop: Int32Array;
 }
 

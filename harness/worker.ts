@@ -31,6 +31,8 @@ function elapsed(start: bigint): number {
 
 /** Piscina calls the default export once per task. */
 export default function handle(task: Task): TruthSliceAnswer | TrialsAnswer | SpectralAnswer {
+  // Tell the run loop that computing starts now: cell limits count from here, not from the queue.
+  Atomics.store(task.stop, 1, 1);
   switch (task.type) {
     case "truth-slice": {
       const inst = instanceFor(task.ctx);

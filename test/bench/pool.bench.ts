@@ -14,7 +14,7 @@ const PARAMS = { k: 3, density: 4.26, planted: false, satisfiable: false, unique
 async function timeOnce(pool: WorkerPool, n: number, index: number): Promise<{ seconds: number; assignments: number }> {
   const problem = ksatFamily.generate("bench", PARAMS, n, index).problem;
   const ctx = { family: "ksat", params: PARAMS, masterSeed: "bench", n, index, file: "" };
-  const stop = new Int32Array(new SharedArrayBuffer(4));
+  const stop = new Int32Array(new SharedArrayBuffer(8));
   // Warm the workers' instance cache and JIT on the same instance first: we time the enumeration, not start-up.
   await Promise.all(planSlices(problem, pool.size).map((slice) => pool.run<TruthSliceAnswer>({ type: "truth-slice", ctx, slice, stop })));
   const start = process.hrtime.bigint();
