@@ -51,7 +51,7 @@ async function main(): Promise<number> {
     .scriptName("speedbound")
     .usage("$0 <command> [options]\n\nMeasured classical scaling against predicted quantum costs on the same seeded instances.")
     .command("run", "generate instances, compute ground truth, time solvers, predict quantum costs, write tables", (y) => withOptions(y, STUDY_GROUPS), async (a) => set(await commands.run(a, args)))
-    .command("demo", "a small 3-SAT study (n = 8..20) into results/demo, with a summary", (y) => y, async () => set(await commands.demo()))
+    .command("demo", "a small 3-SAT study (n = 12..26, satisfiable draws) into results/demo, with a summary", (y) => y, async () => set(await commands.demo()))
     .command(
       "solve <file>",
       "exact optimum and degeneracy of one DIMACS CNF or coupling-list file",

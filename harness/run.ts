@@ -205,6 +205,9 @@ export async function runStudy(spec: StudySpec, options: RunOptions): Promise<Ru
         best: null, beta_start: null, beta_end: null, status: "error", wall_ns: 0, message: "", ...extra,
       });
       if (truth.status !== "ok" || truth.optimum === null) return rec(withoutTruth(truth));
+      if (cell.method === "walk" && truth.optimum > 0) {
+        return rec({ status: "skipped", message: "not applicable: unsatisfiable, and Schöning's walk only finds models" });
+      }
       return withStopFlag(async (flag) => {
         try {
           const a = await pool.run<TrialsAnswer>({

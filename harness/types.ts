@@ -3,8 +3,11 @@
  * column names (snake_case with units) so that tables are rebuilt from the journal without renaming.
  */
 
-/** Cell status: finished normally, stopped by a budget (value is a lower bound), or failed. */
-export type CellStatus = "ok" | "censored" | "error";
+/**
+ * Cell status: finished normally, stopped by a budget (value is a lower bound), failed, or not applicable
+ * (Schöning's walk on an unsatisfiable instance: it can only find models).
+ */
+export type CellStatus = "ok" | "censored" | "error" | "skipped";
 
 /** One row of instances.csv: an instance and its exact ground truth. */
 export interface InstanceRow {

@@ -145,6 +145,8 @@ describe("fits and comparison", () => {
     // against 0.5 it would pass, against Grover fitted on the same sizes (lower bound 0.124 here) it must not.
     expect(speedupLabel(e(1, 0.9, 1.1), e(0.472, 0.472, 0.472)).betterThanGrover).toBe(true);
     expect(speedupLabel(e(1, 0.9, 1.1), e(0.472, 0.472, 0.472), 0.124).betterThanGrover).toBe(false);
+    // Against a classical cost that does not grow (a_c interval below 0: overheads dominate at small n) no claim.
+    expect(speedupLabel(e(-0.27, -0.56, -0.14), e(0.041, 0.001, 0.115)).betterThanGrover).toBe(false);
     expect(speedupLabel(e(1, 0.9, 1.1), e(0.5, 0, 0.6)).label).toContain("undetermined");
   });
 });

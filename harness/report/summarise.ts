@@ -228,6 +228,7 @@ function collect(runs: ReadonlyArray<RunRow>, predictions: ReadonlyArray<Predict
     }
   };
   for (const row of runs) {
+    if (row.status === "skipped") continue; // not applicable to this instance: no observation at all
     if (row.status === "error") {
       addError(row.family, "solver", row.solver, row.run_length, row.n, row.instance);
       continue;
@@ -237,6 +238,7 @@ function collect(runs: ReadonlyArray<RunRow>, predictions: ReadonlyArray<Predict
     }
   }
   for (const row of predictions) {
+    if (row.status === "skipped") continue;
     if (row.status === "error") {
       addError(row.family, "predictor", row.predictor, predictionRunLength(row), row.n, row.instance);
       continue;
@@ -568,7 +570,7 @@ export const SPEEDUP_RULE = [
   "'quadratic' if r_low <= 2 <= r_high and r_high - r_low <= 1; 'speedup, consistent with quadratic (wide interval)' if",
   "r_low <= 2 <= r_high and wider; 'sub-quadratic speedup' if 1 < r_low and r_high < 2; 'undetermined' without intervals;",
   "'classical not exponential' if a_c,high <= 0; 'undetermined (quantum exponent interval reaches 0)' if a_q,low <= 0.",
-  "'; better than Grover' is added when 0 < a_q,low and a_q,high < min(0.5, lower bound of the grover predictor's",
+  "'; better than Grover' is added when a_c,low > 0, 0 < a_q,low and a_q,high < min(0.5, lower bound of the grover predictor's",
   "exponent fitted on the same sizes, when the study has it) - 0.01 (GROVER_MARGIN).",
 ].join(" ");
 
@@ -594,7 +596,9 @@ export function speedupLabel(
   // Small sizes bend every query count (e.g. the (log2 N)^2 term of minimum finding), so the bar is Grover's own
   // exponent fitted on the same sizes when the study has it (its lower bound), never above 0.5.
   const bar = Math.min(0.5, groverLow) - GROVER_MARGIN;
-  const betterThanGrover = quantum.high !== null && quantum.low !== null && quantum.low > 0 && quantum.high < bar;
+  // The claim also needs an exponentially growing classical cost to be set against (a_c,low > 0).
+  const betterThanGrover =
+    quantum.high !== null && quantum.low !== null && quantum.low > 0 && quantum.high < bar && classical.low !== null && classical.low > 0;
   const withGrover = (label: string): string => (betterThanGrover ? `${label}; better than Grover` : label);
   if (classical.low === null || classical.high === null || quantum.low === null || quantum.high === null) {
     return { label: withGrover("undetermined"), ratio, low: null, high: null, betterThanGrover };
