@@ -23,7 +23,7 @@ export function consoleProgress(stream: NodeJS.WriteStream = process.stderr): Pr
     let count = 0;
     return {
       start(total, alreadyDone) {
-        stream.write(`speedbound: ${total} cells${alreadyDone ? ` (${alreadyDone} instances already done, resuming)` : ""}\n`);
+        stream.write(`speedbound: ${total} cells${alreadyDone ? ` (${alreadyDone} already in the journal, resuming)` : ""}\n`);
       },
       tick() {
         count++;
@@ -42,8 +42,8 @@ export function consoleProgress(stream: NodeJS.WriteStream = process.stderr): Pr
     cliProgress.Presets.shades_classic,
   );
   return {
-    start(total) {
-      bar.start(total, 0, { last: "" });
+    start(total, alreadyDone) {
+      bar.start(total, alreadyDone, { last: "" });
     },
     tick(key) {
       bar.increment(1, { last: key });

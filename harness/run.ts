@@ -265,7 +265,7 @@ export async function runStudy(spec: StudySpec, options: RunOptions): Promise<Ru
     );
   };
 
-  options.progress.start(cellsTotal, mine.filter((i) => cellsOfInstance(spec, i).every((c) => done.has(c.key))).length);
+  options.progress.start(cellsTotal, mine.reduce((s, i) => s + cellsOfInstance(spec, i).filter((c) => done.has(c.key)).length, 0));
   const completeSizes: number[] = [];
   const incompleteSizes: number[] = [];
   try {
