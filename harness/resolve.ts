@@ -206,7 +206,6 @@ export function resolveStudy(argv: Argv): StudySpec {
     bValues = [];
     for (let i = 0; parts[0] + i * parts[2] <= parts[1] + 1e-12; i++) bValues.push(Number((parts[0] + i * parts[2]).toPrecision(12)));
   }
-  const optional = (name: string): number | null => (argv[name] === undefined ? null : numberOption(argv, name));
   const study: StudySpec = {
     family,
     familyParams,
@@ -222,17 +221,28 @@ export function resolveStudy(argv: Argv): StudySpec {
     beta,
     predictors,
     spectral: { bValues, eta: numberOption(argv, "eta") as number },
-    costModel: {
-      toffoliSeconds: (numberOption(argv, "toffoli-us") as number) * 1e-6,
-      factories: numberOption(argv, "factories") as number,
-      classicalParallelism: numberOption(argv, "classical-parallelism") as number,
-      oracleToffolis: optional("oracle-toffolis"),
-      walkStepToffolis: optional("walk-step-toffolis"),
-      annealStepToffolis: optional("anneal-step-toffolis"),
-    },
-    report: { fitFrom: optional("fit-from"), resamples: numberOption(argv, "resamples") as number },
+    costModel: resolveCostModel(argv),
+    report: { fitFrom: optionalNumber(argv, "fit-from"), resamples: numberOption(argv, "resamples") as number },
   };
   return deepFreeze(study);
+}
+
+/** A numeric option that has no default: null when not given. */
+function optionalNumber(argv: Argv, name: string): number | null {
+  return argv[name] === undefined ? null : numberOption(argv, name);
+}
+
+/** The cost-model options (group "cost model"), resolved with their defaults. */
+export function resolveCostModel(argv: Argv): StudySpec["costModel"] {
+  return {
+    // Division (not × 1e-6) so the default 170 µs gives exactly the literal 170e-6 the cost model knows as its default.
+    toffoliSeconds: (numberOption(argv, "toffoli-us") as number) / 1e6,
+    factories: numberOption(argv, "factories") as number,
+    classicalParallelism: numberOption(argv, "classical-parallelism") as number,
+    oracleToffolis: optionalNumber(argv, "oracle-toffolis"),
+    walkStepToffolis: optionalNumber(argv, "walk-step-toffolis"),
+    annealStepToffolis: optionalNumber(argv, "anneal-step-toffolis"),
+  };
 }
 
 function deepFreeze<T>(o: T): T {

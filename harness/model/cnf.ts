@@ -46,22 +46,9 @@ export function clausesOf(cnf: Cnf): number[][] {
  * O(total literals); valid for n ≤ 52 (z must be an exact integer in a double).
  */
 export function violatedBy(cnf: Cnf, z: number): number {
-  const { literals, offsets } = cnf;
-  let violated = 0;
-  for (let c = 0; c + 1 < offsets.length; c++) {
-    let sat = false;
-    for (let i = offsets[c]; i < offsets[c + 1]; i++) {
-      const lit = literals[i];
-      const v = lit > 0 ? lit - 1 : -lit - 1;
-      const value = Math.floor(z / 2 ** v) % 2;
-      if ((lit > 0 ? value : 1 - value) === 1) {
-        sat = true;
-        break;
-      }
-    }
-    if (!sat) violated++;
-  }
-  return violated;
+  const values = new Uint8Array(cnf.variables);
+  for (let v = 0; v < cnf.variables; v++) values[v] = Math.floor(z / 2 ** v) % 2;
+  return violatedByValues(cnf, values);
 }
 
 /** Number of clauses violated by an explicit assignment (values[v−1] ∈ {0,1}). */

@@ -4,7 +4,7 @@
  * comparison and crossover estimates use.
  */
 import type { StudySpec } from "../study.js";
-import { numberOption } from "../resolve.js";
+import { resolveCostModel } from "../resolve.js";
 import {
   COST_MODEL_DEFAULTS,
   type CostModelOptions,
@@ -30,17 +30,7 @@ export function costModelOptions(c: StudySpec["costModel"]): CostModelOptions {
 
 /** Rows of the `speedbound cost` table from the command-line options of the cost-model group. */
 export function costModelRows(argv: Readonly<Record<string, unknown>>): Array<{ quantity: string; value: string; source: string }> {
-  const optional = (name: string): number | null => (argv[name] === undefined ? null : numberOption(argv, name));
-  return describeCostModel(
-    costModelOptions({
-      toffoliSeconds: (numberOption(argv, "toffoli-us") as number) * 1e-6,
-      factories: numberOption(argv, "factories") as number,
-      classicalParallelism: numberOption(argv, "classical-parallelism") as number,
-      oracleToffolis: optional("oracle-toffolis"),
-      walkStepToffolis: optional("walk-step-toffolis"),
-      annealStepToffolis: optional("anneal-step-toffolis"),
-    }),
-  );
+  return describeCostModel(costModelOptions(resolveCostModel(argv)));
 }
 
 /** Size facts of a family at size n that the Toffoli counts need (mean clauses or terms of the instances). */
