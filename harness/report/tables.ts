@@ -89,8 +89,26 @@ export function buildTables(spec: StudySpec, records: ReadonlyArray<JournalRecor
       ...s.row, wall_ns: s.wall_ns, message: s.message,
     } as PredictionRow);
   }
-  predictions.sort((a, b) => a.n - b.n || a.instance - b.instance || a.predictor.localeCompare(b.predictor));
+  markBestB(predictions);
+  predictions.sort((a, b) => a.n - b.n || a.instance - b.instance || a.predictor.localeCompare(b.predictor) || Number(a.b ?? 0) - Number(b.b ?? 0));
   return { instances, runs, predictions };
+}
+
+/**
+ * With a b scan, marks per instance the spectral row with the fewest predicted queries among those whose gap
+ * passes its threshold (`b_best`); rows with a failing gap are never chosen.
+ */
+function markBestB(predictions: PredictionRow[]): void {
+  const best = new Map<string, PredictionRow>();
+  for (const row of predictions) {
+    if (row.predictor !== "spectral") continue;
+    row.b_best = false;
+    if (row.status !== "ok" || row.gap_ok !== true || row.queries === null) continue;
+    const key = `${row.n}|${row.instance}`;
+    const current = best.get(key);
+    if (current === undefined || (row.queries as number) < (current.queries as number)) best.set(key, row);
+  }
+  for (const row of best.values()) row.b_best = true;
 }
 
 function isCnf(spec: StudySpec): boolean {
