@@ -3,6 +3,7 @@ import { deriveSeed, Rng } from "../harness/random.js";
 import { cnfFromClauses } from "../harness/model/cnf.js";
 import { isingFromTerms } from "../harness/model/ising.js";
 import { costOf, costTolerance, sizeOf, type Problem } from "../harness/model/problem.js";
+import type { TrialsResult } from "../solvers/types.js";
 import { annealTrials, betaSchedule, defaultBetaRange, type AnnealOptions } from "../solvers/anneal.js";
 import { trialRng } from "../solvers/walk.js";
 
@@ -142,6 +143,90 @@ describe("annealTrials", () => {
     expect(() => annealTrials(problem, options(problem, Number.NaN))).toThrow(RangeError);
     expect(() => annealTrials(problem, options(problem, 0, { betaStart: 0, schedule: "geometric" }))).toThrow(RangeError);
     expect(() => annealTrials(problem, options(problem, 0, { betaEnd: Infinity }))).toThrow(RangeError);
+  });
+});
+
+/**
+ * Metropolis annealing transcribed plainly from the TSDoc of solvers/anneal.ts, every cost recomputed from
+ * scratch with the reference evaluator costOf (n ≤ 30): trial t draws from trialRng(seed, t); the start is
+ * the low n bits of the first draws; CNF draws u on every attempt and accepts when ⌊u/2⌋ < 2^31·exp(−β·ΔE)
+ * and β·ΔE ≤ 32 ln 2 (ΔE ≤ 0 always); Ising accepts ΔE ≤ 0 without a draw, rejects β·ΔE > 32 ln 2 without a
+ * draw, and otherwise accepts when u < 2^32·exp(−β·ΔE). Used on integer costs (CNF, ±1 couplings, a ±0.5 field),
+ * where the engines' incremental ΔE is exact, so the two must agree draw for draw.
+ */
+function referenceAnneal(problem: Problem, o: AnnealOptions): { result: TrialsResult; uphill: number; rejected: number } {
+  const n = sizeOf(problem);
+  const betas = betaSchedule(o.betaStart, o.betaEnd, o.sweeps, o.schedule);
+  const maxExponent = 32 * Math.LN2;
+  let successes = 0;
+  let best = Infinity;
+  let uphill = 0; // accepted moves with ΔE > 0
+  let rejected = 0;
+  for (let t = o.firstTrial ?? 0; t < (o.firstTrial ?? 0) + o.trials; t++) {
+    const rng = trialRng(o.seed, t);
+    let z = 0;
+    for (let v = 0; v < n; v += 32) {
+      const bits = rng.nextU32();
+      for (let b = 0; b < 32 && v + b < n; b++) z += ((bits >>> b) & 1) * 2 ** (v + b);
+    }
+    let cost = costOf(problem, z);
+    let trialBest = cost;
+    for (const beta of betas) {
+      for (let v = 0; v < n; v++) {
+        const flipped = z ^ (1 << v);
+        const delta = costOf(problem, flipped) - cost;
+        let accept: boolean;
+        if (problem.kind === "cnf") {
+          const u = rng.nextU32();
+          accept = delta <= 0 || (beta * delta <= maxExponent && u >>> 1 < Math.exp(-beta * delta) * 2 ** 31);
+        } else {
+          accept = delta <= 0 || (beta * delta <= maxExponent && rng.nextU32() < Math.exp(-beta * delta) * 2 ** 32);
+        }
+        if (accept) {
+          z = flipped;
+          cost += delta;
+          trialBest = Math.min(trialBest, cost);
+          if (delta > 0) uphill++;
+        } else {
+          rejected++;
+        }
+      }
+    }
+    if (trialBest <= o.target + o.tolerance) successes++;
+    best = Math.min(best, trialBest);
+  }
+  return { result: { trials: o.trials, successes, work: o.trials * o.sweeps * n, best, censored: false }, uphill, rejected };
+}
+
+describe("annealTrials against a plain transcription", () => {
+  const ints = new Rng(deriveSeed("anneal-test", "reference"));
+  const pm1 = (spinsOf: number[][]) => spinsOf.map((spins) => ({ spins, J: ints.bit() === 1 ? 1 : -1 }));
+  const pairs = (n: number) => Array.from({ length: n }, (_, i) => Array.from({ length: n - i - 1 }, (_, d) => [i, i + 1 + d])).flat();
+  const triples = (n: number) => pairs(n).flatMap(([i, j]) => Array.from({ length: n - j - 1 }, (_, d) => [i, j, j + 1 + d]));
+  const mixed: Problem = {
+    kind: "cnf",
+    cnf: cnfFromClauses(10, [[1, -2], [2, 3, -4, 5], [-1], [4, 4, -6], [6, 7, 8, 9, -10], [], [-3, 10], [2, -2, 7], [5, -8, 9]]),
+  };
+  const problems: Array<[string, Problem]> = [
+    ["3-SAT n=12, m=52 (CNF engine, one clause length)", ksat(ints, 12, 52)],
+    ["mixed lengths, repeats, a tautology and an empty clause (CNF engine)", mixed],
+    ["one variable: x1 ∧ x1 ∧ ¬x1 (CNF engine, smallest layout)", { kind: "cnf", cnf: cnfFromClauses(1, [[1], [1, 1], [-1]]) }],
+    ["±1 SK n=11 (dense engine)", { kind: "ising", ising: isingFromTerms(11, pm1(pairs(11))) }],
+    ["±1 ring n=12 with a ±0.5 field and a constant (term engine)", ring(ints, 12)],
+    ["±1 3-spin n=7 (term engine)", { kind: "ising", ising: isingFromTerms(7, pm1(triples(7))) }],
+  ];
+
+  it.each(problems)("%s: same successes, best and work, draw for draw", (_name, problem) => {
+    const optimum = bruteOptimum(problem);
+    for (const schedule of ["linear", "geometric"] as const) {
+      // firstTrial > 0 checks the trial indexing too.
+      const o = options(problem, optimum, { trials: 30, sweeps: 8, firstTrial: 5, schedule, seed: `reference-${schedule}` });
+      const { result, uphill, rejected } = referenceAnneal(problem, o);
+      expect(annealTrials(problem, o)).toEqual(result);
+      // The comparison covers accepted uphill moves and rejections, not only descents.
+      expect(uphill).toBeGreaterThan(10);
+      expect(rejected).toBeGreaterThan(10);
+    }
   });
 });
 

@@ -1,8 +1,9 @@
+import { createHash } from "node:crypto";
 import { describe, expect, it } from "vitest";
 import { deriveSeed, Rng } from "../harness/random.js";
-import { cnfFromClauses, violatedBy, type Cnf } from "../harness/model/cnf.js";
+import { clausesOf, cnfFromClauses, violatedBy, type Cnf } from "../harness/model/cnf.js";
 import { wilsonInterval } from "../harness/stats/tts.js";
-import { compileCnf, trialRng, uniformBelow, walkTrials } from "../solvers/walk.js";
+import { compileCnf, trialKey, trialRng, uniformBelow, walkTrials } from "../solvers/walk.js";
 
 /** Fewest violated clauses over all 2^n assignments (brute force, n ≤ 20). */
 function bruteOptimum(cnf: Cnf): number {
@@ -210,10 +211,149 @@ describe("uniformBelow", () => {
   });
 });
 
+/**
+ * Schöning's walk transcribed plainly from the TSDoc of walkCompiled, with ordinary arrays, Rng.below and a
+ * linear search for list positions: the same compilation (first occurrence of a repeated literal kept,
+ * tautologies dropped, empty clauses counted), the same draws and the same violated-list discipline. The fast
+ * loop must agree with it draw for draw.
+ */
+function referenceWalk(cnf: Cnf, trials: number, seed: string, maxFlips: number) {
+  const n = cnf.variables;
+  const kept: number[][] = [];
+  let empty = 0;
+  for (const clause of clausesOf(cnf)) {
+    if (clause.length === 0) {
+      empty++;
+      continue;
+    }
+    const lits: number[] = [];
+    for (const lit of clause) if (!lits.includes(lit)) lits.push(lit);
+    if (!lits.some((lit) => lits.includes(-lit))) kept.push(lits);
+  }
+  const k = kept.length > 0 && kept.every((c) => c.length === kept[0].length) ? kept[0].length : 0;
+  let successes = 0;
+  let work = 0;
+  let best = Infinity;
+  for (let t = 0; t < trials; t++) {
+    const rng = trialRng(seed, t);
+    const value: number[] = [];
+    for (let v = 0; v < n; v += 32) {
+      const bits = rng.nextU32();
+      for (let b = 0; b < 32 && v + b < n; b++) value.push((bits >>> b) & 1);
+    }
+    const isTrue = (lit: number): boolean => (lit > 0 ? value[lit - 1] === 1 : value[-lit - 1] === 0);
+    const count = kept.map((c) => c.filter(isTrue).length);
+    const list = kept.map((_, c) => c).filter((c) => count[c] === 0);
+    let trialBest = list.length;
+    let flips = 0;
+    while (list.length > 0 && flips < maxFlips) {
+      let lit: number;
+      if (k > 0) {
+        const j = rng.below(list.length * k);
+        lit = kept[list[Math.floor(j / k)]][j % k];
+      } else {
+        const c = list[rng.below(list.length)];
+        lit = kept[c][rng.below(kept[c].length)];
+      }
+      const v = Math.abs(lit) - 1;
+      value[v] ^= 1;
+      const nowTrue = value[v] === 1 ? v + 1 : -(v + 1); // the literal of v that is now true
+      kept.forEach((c, i) => {
+        if (c.includes(nowTrue) && count[i]++ === 0) {
+          const at = list.indexOf(i);
+          list[at] = list[list.length - 1];
+          list.pop();
+        }
+      });
+      kept.forEach((c, i) => {
+        if (c.includes(-nowTrue) && --count[i] === 0) list.push(i);
+      });
+      flips++;
+      trialBest = Math.min(trialBest, list.length);
+    }
+    work += flips;
+    if (list.length === 0 && empty === 0) successes++;
+    best = Math.min(best, trialBest + empty);
+  }
+  return { trials, successes, work, best, censored: false };
+}
+
+describe("walkTrials against a plain transcription", () => {
+  it("draws and flips exactly as documented: uniform 3-SAT, mixed clause lengths, repeats, tautologies, empty clauses", () => {
+    const rng = new Rng(deriveSeed("walk-test", "reference"));
+    const formulas: Array<[Cnf, number]> = [
+      [planted3Sat(rng, 14, 60), 3 * 14], // one clause length: one draw a step
+      [planted3Sat(rng, 20, 85), 3 * 20],
+      [messyFormula(rng, 9, 30), 40], // mixed lengths: two draws a step
+      [messyFormula(rng, 12, 25), 60],
+      [cnfFromClauses(6, [[1, 2, 2], [-1, 3], [], [4, -4, 5], [-2, -3, -5, 6], [-6]]), 20],
+    ];
+    let successes = 0;
+    formulas.forEach(([formula, maxFlips], f) => {
+      const expected = referenceWalk(formula, 150, `reference-${f}`, maxFlips);
+      expect(walkTrials(formula, { trials: 150, maxFlips, seed: `reference-${f}`, stop: null }), `formula ${f}`).toEqual(expected);
+      expect(expected.work, `formula ${f}`).toBeGreaterThan(0);
+      successes += expected.successes;
+    });
+    // Both draw paths and both outcomes are covered.
+    expect(formulas.map(([formula]) => compileCnf(formula).clauseLength > 0)).toEqual([true, true, false, false, false]);
+    expect(successes).toBeGreaterThan(0);
+    expect(successes).toBeLessThan(5 * 150);
+  });
+});
+
 describe("trialRng", () => {
-  it("is the generator new Rng(deriveSeed(seed, 'trial', t)) named in the brief", () => {
-    const mine = trialRng("cell", 17);
-    const ref = new Rng(deriveSeed("cell", "trial", 17));
-    for (let i = 0; i < 10; i++) expect(mine.nextU32()).toBe(ref.nextU32());
+  /** MurmurHash3's fmix32 in BigInt arithmetic (the finaliser as published with MurmurHash3, A. Appleby). */
+  const fmix32 = (x: bigint): bigint => {
+    const M = 0xffffffffn;
+    x ^= x >> 16n;
+    x = (x * 0x85ebca6bn) & M;
+    x ^= x >> 13n;
+    x = (x * 0xc2b2ae35n) & M;
+    return x ^ (x >> 16n);
+  };
+  /** The TSDoc definition of trialRng transcribed independently (BigInt, hex seed string). */
+  const reference = (seed: string, t: number): Rng => {
+    const hex = createHash("sha256").update(JSON.stringify([seed, "trial"])).digest("hex");
+    const gamma = [0x6a09e667n, 0xbb67ae85n, 0x3c6ef373n, 0xa54ff53bn];
+    const tHi = BigInt(Math.floor(t / 2 ** 32));
+    const step = (BigInt(t % 2 ** 32) + 1n) % 2n ** 32n;
+    const words = gamma.map((g, i) => {
+      const k = BigInt("0x" + hex.slice(8 * i, 8 * i + 8));
+      return fmix32(((k ^ fmix32(tHi)) + step * g) % 2n ** 32n);
+    });
+    return new Rng(words.map((w) => w.toString(16).padStart(8, "0")).join(""));
+  };
+
+  it("is the documented SplitMix-style derivation from (cell seed, t), for small and large t", () => {
+    for (const [seed, t] of [["cell", 0], ["cell", 17], ["other cell", 17], ["cell", 2 ** 32 - 1], ["cell", 2 ** 32 + 5], ["cell", 2 ** 45 + 3]] as const) {
+      const mine = trialRng(seed, t);
+      const viaKey = trialRng(trialKey(seed), t);
+      const ref = reference(seed, t);
+      for (let i = 0; i < 8; i++) {
+        const x = ref.nextU32();
+        expect(mine.nextU32()).toBe(x);
+        expect(viaKey.nextU32()).toBe(x);
+      }
+    }
+  });
+
+  it("gives adjacent trials unrelated streams: first outputs and their XOR are balanced bit by bit", () => {
+    // For N independent uniform words each bit is Binomial(N, 1/2): mean N/2, standard deviation √N/2; we
+    // allow 5 standard deviations (common practice for a deterministic check; false alarm ≈ 6e−7 a bit).
+    const N = 20000;
+    const key = trialKey("adjacent");
+    const first = Array.from({ length: N + 1 }, (_, t) => trialRng(key, t).nextU32());
+    for (let b = 0; b < 32; b++) {
+      let ones = 0;
+      let xorOnes = 0;
+      for (let t = 0; t < N; t++) {
+        ones += (first[t] >>> b) & 1;
+        xorOnes += ((first[t] ^ first[t + 1]) >>> b) & 1;
+      }
+      expect(Math.abs(ones - N / 2), `bit ${b}`).toBeLessThan((5 * Math.sqrt(N)) / 2);
+      expect(Math.abs(xorOnes - N / 2), `xor bit ${b}`).toBeLessThan((5 * Math.sqrt(N)) / 2);
+    }
+    expect(new Set(first).size).toBeGreaterThan(N - 5); // 32-bit birthday collisions: expected N²/2^33 ≈ 0.05
   });
 });
