@@ -26,16 +26,19 @@ export function exactLimit(problem: Problem): number {
 
 /**
  * Below 2^22 configurations a slice costs less than a pool round trip (~0.1 ms measured per task), so
- * small instances run as one slice; larger ones as 8 slices per worker, enough to balance two cores
- * whose speed differs when the machine is shared (common practice).
+ * small instances run as one slice; larger spin problems as 8 slices per worker, enough to balance two
+ * cores whose speed differs when the machine is shared (common practice); CNF as one slice per worker.
  */
 export function planSlices(problem: Problem, workers: number): Slice[] {
   const n = sizeOf(problem);
   const mirror = problem.kind === "ising" && n > 1 && hasFlipSymmetry(problem.ising);
   const covered = mirror ? n - 1 : n; // free bits once the top spin is pinned
   let bits = 0;
-  if (covered >= 22) {
-    bits = Math.min(Math.ceil(Math.log2(workers * 8)), covered - 16);
+  if (covered >= 22 && workers > 1) {
+    // CNF: the pruning kernel loses its bound at every slice border (each slice proves its own minimum), so
+    // one slice per worker; spins: 8 per worker for balance.
+    const perWorker = problem.kind === "cnf" ? 1 : 8;
+    bits = Math.min(Math.ceil(Math.log2(workers * perWorker)), covered - 16);
   }
   if (!mirror) {
     const slices: Slice[] = [];
