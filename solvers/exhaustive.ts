@@ -72,9 +72,3 @@ export function mergeExact(results: ReadonlyArray<ExactResult>, tolerance: numbe
   }
   return { optimum, degeneracy, assignments, complete };
 }
-
-/** Whole enumeration in the calling thread (tests, `solve --workers 1`, instance filters). */
-export function exhaustiveAll(problem: Problem, stop: StopFlag): ExactResult {
-  const slices = planSlices(problem, 1);
-  return mergeExact(slices.map((s) => exhaustiveSlice(problem, s, stop)), costTolerance(problem));
-}

@@ -7,40 +7,18 @@
  */
 import { EigenvalueDecomposition, Matrix } from "ml-matrix";
 import { describe, expect, it } from "vitest";
-import { cnfFromClauses } from "../harness/model/cnf.js";
 import { fillCostVector } from "../harness/model/cost-vector.js";
 import { isingFromTerms } from "../harness/model/ising.js";
 import { type Problem, costOf, costTolerance } from "../harness/model/problem.js";
 import { spectralPredict } from "../harness/predict/spectral.js";
 import { Rng, deriveSeed } from "../harness/random.js";
+import { random3Sat, sk } from "./helpers/instances.js";
 
 // Agreement required by issue 5 ("energies and overlaps to 10^−9").
 const AGREE = 1e-9;
 // Lanczos residual for these checks: overlaps move by ≈ 2·residual/gap, so 1e−9 agreement needs a residual well
 // below 1e−9 (common practice: two orders of margin).
 const RESIDUAL = 1e-11;
-
-function random3Sat(n: number, seed: string): Problem {
-  const rng = new Rng(deriveSeed("spectral-dense", "3sat", seed));
-  const m = Math.round(4.26 * n);
-  const clauses: number[][] = [];
-  for (let c = 0; c < m; c++) {
-    const vars: number[] = [];
-    while (vars.length < 3) {
-      const v = rng.below(n) + 1;
-      if (!vars.includes(v)) vars.push(v);
-    }
-    clauses.push(vars.map((v) => (rng.bit() ? v : -v)));
-  }
-  return { kind: "cnf", cnf: cnfFromClauses(n, clauses) };
-}
-
-function sk(n: number, seed: string): Problem {
-  const rng = new Rng(deriveSeed("spectral-dense", "sk", seed));
-  const terms: { spins: number[]; J: number }[] = [];
-  for (let i = 0; i < n; i++) for (let j = i + 1; j < n; j++) terms.push({ spins: [i, j], J: rng.normal() / Math.sqrt(n) });
-  return { kind: "ising", ising: isingFromTerms(n, terms) };
-}
 
 function threeSpin(n: number, seed: string): Problem {
   const rng = new Rng(deriveSeed("spectral-dense", "3spin", seed));

@@ -17,35 +17,15 @@ import {
   spectralScan,
 } from "../harness/predict/spectral.js";
 import { Rng, deriveSeed } from "../harness/random.js";
+import { random3Sat, sk } from "./helpers/instances.js";
 
 const TIGHT: SpectralOptions = { b: 0.7, eta: 0.5, tolerance: 1e-11, gapThreshold: 1e-6, seed: "spectral-test" };
-
-function random3Sat(n: number, seed: string, density = 4.26): Problem {
-  const rng = new Rng(deriveSeed("spectral-test", "3sat", seed));
-  const clauses: number[][] = [];
-  for (let c = 0; c < Math.round(density * n); c++) {
-    const vars: number[] = [];
-    while (vars.length < 3) {
-      const v = rng.below(n) + 1;
-      if (!vars.includes(v)) vars.push(v);
-    }
-    clauses.push(vars.map((v) => (rng.bit() ? v : -v)));
-  }
-  return { kind: "cnf", cnf: cnfFromClauses(n, clauses) };
-}
 
 /** Random fields and couplings: no flip symmetry, a unique optimum with probability 1. */
 function fieldModel(n: number, seed: string): Problem {
   const rng = new Rng(deriveSeed("spectral-test", "field", seed));
   const terms: { spins: number[]; J: number }[] = [];
   for (let i = 0; i < n; i++) terms.push({ spins: [i], J: rng.normal() });
-  for (let i = 0; i < n; i++) for (let j = i + 1; j < n; j++) terms.push({ spins: [i, j], J: rng.normal() / Math.sqrt(n) });
-  return { kind: "ising", ising: isingFromTerms(n, terms) };
-}
-
-function sk(n: number, seed: string): Problem {
-  const rng = new Rng(deriveSeed("spectral-test", "sk", seed));
-  const terms: { spins: number[]; J: number }[] = [];
   for (let i = 0; i < n; i++) for (let j = i + 1; j < n; j++) terms.push({ spins: [i, j], J: rng.normal() / Math.sqrt(n) });
   return { kind: "ising", ising: isingFromTerms(n, terms) };
 }

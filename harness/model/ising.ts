@@ -19,11 +19,6 @@ export interface Ising {
   readonly constant: number;
 }
 
-/** Number of terms. */
-export function termCount(model: Ising): number {
-  return model.termOffsets.length - 1;
-}
-
 /** Builds an {@link Ising} from a list of terms. */
 export function isingFromTerms(
   spins: number,
