@@ -19,10 +19,10 @@ import { type Ising } from "./ising.js";
 import { type Problem, sizeOf } from "./problem.js";
 
 /**
- * Largest n for which a cost vector is built: 2^26 doubles take 512 MiB; n = 27 would take 1 GiB for the cost
- * alone, leaving no room under the tool's 2 GiB budget for the spectral solver's own vectors.
+ * Largest n for which a cost vector is built: masks and indices stay 31-bit integers. Memory is the caller's
+ * concern (2^n doubles; the spectral numerics check it against --spectral-memory first).
  */
-export const COST_VECTOR_MAX = 26;
+export const COST_VECTOR_MAX = 30;
 
 /** Clauses longer than this are added directly to the 2^(n−k) configurations they violate, not expanded. */
 function expandClause(k: number, n: number): boolean {
@@ -41,7 +41,7 @@ export function fillCostVector(problem: Problem, out: Float64Array): void {
   const n = sizeOf(problem);
   if (!Number.isInteger(n) || n < 0 || n > COST_VECTOR_MAX) {
     throw new Error(
-      `cost vector: n = ${n} exceeds the limit n ≤ ${COST_VECTOR_MAX} (2^n doubles must fit in 512 MiB)`,
+      `cost vector: n = ${n} exceeds the limit n ≤ ${COST_VECTOR_MAX} (indices must stay 31-bit integers)`,
     );
   }
   const size = 2 ** n;
@@ -110,7 +110,7 @@ function cnfSpectrum(cnf: Cnf, f: Float64Array): number[] {
 /** Adds 1 to every configuration violating each listed clause (all free bits enumerated). */
 function addLongClauses(cnf: Cnf, clauses: readonly number[], out: Float64Array): void {
   const n = cnf.variables;
-  const full = 2 ** n - 1; // n ≤ 26: masks stay within 31-bit integers
+  const full = 2 ** n - 1; // n ≤ 30: masks stay within 31-bit integers
   for (const c of clauses) {
     let fixed = 0;
     let pattern = 0;

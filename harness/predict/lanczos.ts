@@ -752,7 +752,7 @@ function residualNorm(hy: Float64Array, y: Float64Array, theta: number): number 
 }
 
 /** Scratch of the tridiagonal routines (LU with partial pivoting of T − σI, as LAPACK dgttrf). */
-class TridiagonalScratch {
+export class TridiagonalScratch {
   readonly d: Float64Array;
   readonly du: Float64Array;
   readonly du2: Float64Array;
@@ -772,7 +772,7 @@ class TridiagonalScratch {
  * beta[1..k)) by Sturm-sequence bisection to full double precision (Barth, Martin & Wilkinson, "Calculation of
  * the eigenvalues of a symmetric tridiagonal matrix by the method of bisection", Numer. Math. 9 (1967)).
  */
-function tridiagonalEigenvalue(alpha: Float64Array, beta: Float64Array, k: number, index: number): number {
+export function tridiagonalEigenvalue(alpha: Float64Array, beta: Float64Array, k: number, index: number): number {
   let lo = Infinity;
   let hi = -Infinity;
   let bmax = 0;
@@ -807,7 +807,7 @@ function tridiagonalEigenvalue(alpha: Float64Array, beta: Float64Array, k: numbe
  * partial pivoting, as LAPACK dgttrf/dgttrs; a zero pivot is replaced by ε‖T‖). Writes the unit vector into
  * out[0..k) and returns its last component (for the Lanczos residual estimate β_k|s_{k−1}|).
  */
-function tridiagonalEigenvector(
+export function tridiagonalEigenvector(
   alpha: Float64Array,
   beta: Float64Array,
   k: number,

@@ -1,0 +1,113 @@
+/**
+ * The memory-lean spectral path (compact cost, cache-blocked transverse-field product, six-vector Lanczos) against
+ * the reference path (spectral.ts on lanczos.ts) where both run: energies, gap and overlaps to 1e-10 at n ≤ 20 (the issue allows up to 22; kept small for the suite);
+ * the blocked product against a plain per-bit product; the memory accounting and its refusal message.
+ * Reference values are the existing implementation's (itself checked against dense ml-matrix eigen-decompositions in
+ * spectral-dense.test.ts).
+ */
+import { describe, expect, it } from "vitest";
+import { fillCostVector } from "../harness/model/cost-vector.js";
+import type { Problem } from "../harness/model/problem.js";
+import { memoryRefusal, parseMemory, spectralMemoryNeeded } from "../harness/predict/numerics/memory.js";
+import { buildSectorCost, diagonalOf, setAffine } from "../harness/predict/numerics/sector-cost.js";
+import { applyOperator, diagonalAt, type TransverseFieldOperator } from "../harness/predict/numerics/transverse-field.js";
+import { spectralPredict } from "../harness/predict/spectral.js";
+import { spectralLeanScan } from "../harness/predict/spectral-lean.js";
+import { Rng } from "../harness/random.js";
+import { random3Sat, sk } from "./helpers/instances.js";
+
+const OPTIONS = { eta: 0.5, tolerance: 1e-11, gapThreshold: 1e-6, seed: "lean-test" };
+
+function optimumOf(problem: Problem): number {
+  const n = problem.kind === "cnf" ? problem.cnf.variables : problem.ising.spins;
+  const c = new Float64Array(2 ** n);
+  fillCostVector(problem, c);
+  let m = Infinity;
+  for (const x of c) m = Math.min(m, x);
+  return m;
+}
+
+/** Plain product: w = H v with one pass per bit (the definition). */
+function plainProduct(op: TransverseFieldOperator, v: Float64Array): Float64Array {
+  const w = new Float64Array(op.dim);
+  for (let z = 0; z < op.dim; z++) {
+    let s = 0;
+    for (let i = 0; i < op.bits; i++) s += v[z ^ (1 << i)];
+    if (op.mirror) s += v[op.dim - 1 - z];
+    w[z] = diagonalAt(op.diagonal, z) * v[z] - op.field * s;
+  }
+  return w;
+}
+
+describe("cache-blocked transverse-field product", () => {
+  for (const [label, problem] of [["3-SAT n = 19", random3Sat(19, "blocked")], ["SK n = 20 (sector)", sk(20, "blocked")]] as const) {
+    it(`equals the per-bit product on ${label} (pass A and pass B both used)`, () => {
+      const cost = buildSectorCost(problem);
+      const op: TransverseFieldOperator = { dim: cost.dim, bits: cost.bits, mirror: cost.symmetric, field: 0.37, diagonal: diagonalOf(cost) };
+      setAffine(op.diagonal, 0.3, -1.1, 0.2);
+      const rng = new Rng("blocked-product");
+      const v = new Float64Array(cost.dim).map(() => rng.nextDouble() - 0.5);
+      const prev = new Float64Array(cost.dim).map(() => rng.nextDouble() - 0.5);
+      const w = new Float64Array(cost.dim);
+      const alpha = applyOperator(op, v, 1.5, prev, 0.25, w);
+      const ref = plainProduct(op, v);
+      let err = 0;
+      let dot = 0;
+      for (let z = 0; z < cost.dim; z++) {
+        const expected = 1.5 * ref[z] - 0.25 * prev[z];
+        err = Math.max(err, Math.abs(w[z] - expected));
+        dot += expected * v[z];
+      }
+      expect(err).toBeLessThan(1e-12);
+      expect(Math.abs(alpha - dot)).toBeLessThan(1e-9);
+    });
+  }
+});
+
+describe("lean spectral path against the reference path (n ≤ 22)", () => {
+  const cases: [string, Problem][] = [
+    ["3-SAT n = 12", random3Sat(12, "lean-a")],
+    ["3-SAT n = 16", random3Sat(16, "lean-b")],
+    ["SK n = 14 (symmetric sector)", sk(14, "lean-c")],
+    ["SK n = 20 (symmetric sector)", sk(20, "lean-d")],
+  ];
+  for (const [label, problem] of cases) {
+    it(`${label}: e0, e1, gap and both overlaps to 1e-10`, () => {
+      const optimum = optimumOf(problem);
+      const n = problem.kind === "cnf" ? problem.cnf.variables : problem.ising.spins;
+      const costs = new Float64Array(2 ** n);
+      fillCostVector(problem, costs);
+      const ref = spectralPredict(problem, costs, optimum, { ...OPTIONS, b: 0.7 });
+      const [lean] = spectralLeanScan(problem, buildSectorCost(problem), optimum, [0.7], OPTIONS);
+      expect(lean.converged).toBe(true);
+      expect(lean.sector).toBe(ref.sector);
+      expect(lean.optima).toBe(ref.optima);
+      expect(Math.abs(lean.e0 - ref.e0)).toBeLessThan(1e-10);
+      expect(Math.abs(lean.e1 - ref.e1)).toBeLessThan(1e-10);
+      expect(Math.abs(lean.gap - ref.gap)).toBeLessThan(1e-10);
+      expect(Math.abs(lean.overlap_start - ref.overlap_start)).toBeLessThan(1e-10);
+      expect(Math.abs(lean.overlap_opt - ref.overlap_opt)).toBeLessThan(1e-10);
+      expect(lean.mean_cost).toBeCloseTo(ref.mean_cost, 12);
+    });
+  }
+});
+
+describe("spectral memory", () => {
+  it("counts 49 bytes per amplitude for 3-SAT and 28 for SK (symmetric sector)", () => {
+    const overhead = 16 * 1024 ** 2;
+    expect(spectralMemoryNeeded(random3Sat(20, "m")) - overhead).toBe(49 * 2 ** 20);
+    expect(spectralMemoryNeeded(sk(21, "m")) - overhead).toBe(28 * 2 ** 21);
+  });
+  it("refuses with the memory n needs and the memory allowed", () => {
+    const msg = memoryRefusal("spectral", random3Sat(20, "m"), 16 * 1024 ** 2);
+    expect(msg).toBe("spectral: n = 20 needs 0.06 GiB (49 bytes per amplitude × 2^20), but --spectral-memory allows 0.02 GiB");
+    expect(memoryRefusal("spectral", random3Sat(20, "m"), 1024 ** 3)).toBeNull();
+  });
+  it("parses GiB, MiB and TiB", () => {
+    expect(parseMemory("16")).toBe(16 * 1024 ** 3);
+    expect(parseMemory("512MiB")).toBe(512 * 1024 ** 2);
+    expect(parseMemory("1.5 TiB")).toBe(1.5 * 1024 ** 4);
+    expect(parseMemory("lots")).toBeNull();
+    expect(parseMemory("0")).toBeNull();
+  });
+});
