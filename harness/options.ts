@@ -29,6 +29,7 @@ export const PREDICTOR_NAMES = [
   "amplified-walk",
   "amplified-anneal",
   "spectral",
+  "adiabatic",
 ] as const;
 
 /** The study options (`run`, `slurm`, `instance` share the family part). */
@@ -57,6 +58,8 @@ export const STUDY_OPTIONS: ReadonlyArray<OptionSpec> = [
   { name: "b", type: "number", group: "predictors", default: 0.7, min: 0, description: "spectral: filter strength b" },
   { name: "b-scan", type: "string", group: "predictors", description: "spectral: scan b over FROM:TO:STEP (overrides --b)" },
   { name: "eta", type: "number", group: "predictors", default: 0.5, min: 0, max: 0.999, description: "spectral: filter depth η (costs shallower than η of the optimum are flattened)" },
+  { name: "spectral-memory", type: "string", group: "predictors", unit: "GiB", description: "spectral, adiabatic: memory one cell may use, as GiB or with MiB/GiB/TiB (default: 75% of physical memory)" },
+  { name: "adiabatic-grid", type: "integer", group: "predictors", default: 21, min: 3, max: 10001, description: "adiabatic: evenly spaced points s in [0, 1] searched for the minimum gap before Brent refinement" },
   { name: "toffoli-us", type: "number", group: "cost model", default: 170, min: 0, unit: "µs", description: "time per Toffoli gate with one magic-state factory" },
   { name: "factories", type: "integer", group: "cost model", default: 1, min: 1, description: "magic-state factories working in parallel" },
   { name: "classical-parallelism", type: "number", group: "cost model", default: 1, min: 1, description: "classical cores S the measured time is divided by" },

@@ -12,7 +12,8 @@ import type { StudySpec } from "./study.js";
 import { sizeOf } from "./model/problem.js";
 import { CNF_EXACT_MAX_VARIABLES } from "../solvers/exhaustive-cnf.js";
 import { SPIN_EXACT_MAX } from "../solvers/exhaustive-spin.js";
-import { lanczosMaxN } from "./predict/lanczos.js";
+import { defaultSpectralMemory, familyBytesPerAmplitude, formatGiB, parseMemory, studyMemoryNeeded } from "./predict/numerics/memory.js";
+import { SECTOR_COST_MAX_N } from "./predict/numerics/sector-cost.js";
 
 type Argv = Readonly<Record<string, unknown>>;
 
@@ -173,10 +174,14 @@ export function resolveStudy(argv: Argv): StudySpec {
     if (argv.predict !== undefined) throw new InputError(`--predict: amplified-anneal needs the anneal solver in --solvers`);
     predictors.splice(predictors.indexOf("amplified-anneal"), 1);
   }
-  // Spectral numerics keep a few 2^n state vectors: 2 GiB allows n ≤ 24 (25 for spin-flip-symmetric models).
-  const spectralMax = lanczosMaxN(family === "sk" || family === "maxcut" ? "symmetric" : "all");
-  if (predictors.includes("spectral") && largest > spectralMax) {
-    throw new InputError(`--predict: spectral needs n ≤ ${spectralMax} (state vectors within 2 GiB), but --n reaches ${largest}`);
+  // Spectral and adiabatic numerics keep six state vectors plus the cost: check the largest size against the allowance.
+  const spectralMemory = resolveSpectralMemory(argv);
+  for (const name of ["spectral", "adiabatic"]) {
+    if (!predictors.includes(name)) continue;
+    const needed = studyMemoryNeeded(family, familyParams, largest);
+    if (largest > SECTOR_COST_MAX_N || needed > spectralMemory) {
+      throw new InputError(`--predict: ${name} at n = ${largest} needs ${formatGiB(needed)} (${familyBytesPerAmplitude(family, familyParams, largest)} bytes per amplitude × 2^${largest}), but --spectral-memory allows ${formatGiB(spectralMemory)}`);
+    }
   }
   const walkFlipsText = String(argv["walk-flips"] ?? spec("walk-flips").default);
   const wf = /^(\d+(?:\.\d+)?)n$/.exec(walkFlipsText);
@@ -220,7 +225,8 @@ export function resolveStudy(argv: Argv): StudySpec {
     schedule,
     beta,
     predictors,
-    spectral: { bValues, eta: numberOption(argv, "eta") as number },
+    spectral: { bValues, eta: numberOption(argv, "eta") as number, memory: spectralMemory },
+    adiabatic: { grid: numberOption(argv, "adiabatic-grid") as number },
     costModel: resolveCostModel(argv),
     report: { fitFrom: optionalNumber(argv, "fit-from"), resamples: numberOption(argv, "resamples") as number },
   };
@@ -263,4 +269,12 @@ export function readStudyFolder(dir: string): { spec: StudySpec; shard: { k: num
   } catch {
     throw new InputError(`${path}:1: spec.json does not parse`);
   }
+}
+
+/** --spectral-memory in bytes (default: 75% of physical memory, read now). */
+export function resolveSpectralMemory(argv: Argv): number {
+  if (argv["spectral-memory"] === undefined) return defaultSpectralMemory();
+  const bytes = parseMemory(String(argv["spectral-memory"]));
+  if (bytes === null) throw new InputError(`--spectral-memory: '${String(argv["spectral-memory"])}' is not a positive size (GiB, or a number with MiB/GiB/TiB)`);
+  return bytes;
 }

@@ -28,7 +28,10 @@ export interface StudySpec {
   /** Anneal inverse-temperature range, or null for the instance-derived default. */
   readonly beta: readonly [number, number] | null;
   readonly predictors: ReadonlyArray<string>;
-  readonly spectral: { readonly bValues: ReadonlyArray<number>; readonly eta: number };
+  /** memory: bytes one spectral or adiabatic cell may use (--spectral-memory); absent in older spec.json files. */
+  readonly spectral: { readonly bValues: ReadonlyArray<number>; readonly eta: number; readonly memory?: number };
+  /** adiabatic: grid points in [0, 1] (--adiabatic-grid); absent in older spec.json files. */
+  readonly adiabatic?: { readonly grid: number };
   readonly costModel: {
     readonly toffoliSeconds: number;
     readonly factories: number;

@@ -1,39 +1,31 @@
 /**
- * One spectral computation on one instance, as a cell or the `spectral` command runs it: the cost vector over
- * all 2^n configurations, then the filtered-Hamiltonian numerics of spectral.ts.
+ * One spectral computation on one instance, as a cell or the `spectral` command runs it: the cost in its working
+ * space (numerics/sector-cost.ts), then the filtered-Hamiltonian numerics on the memory-lean path (spectral-lean.ts),
+ * refused up front when the instance needs more than the memory allowance (--spectral-memory).
  */
-import { COST_VECTOR_MAX, fillCostVector } from "../model/cost-vector.js";
 import type { Problem } from "../model/problem.js";
-import { sizeOf } from "../model/problem.js";
 import { InputError } from "../errors.js";
-import { spectralPredict, DEFAULT_SPECTRAL_OPTIONS } from "./spectral.js";
-import { lanczosMaxN } from "./lanczos.js";
-import { hasFlipSymmetry } from "../model/ising.js";
-
-/**
- * Largest n the spectral numerics accept for a problem: the Lanczos memory budget (2 GiB), which allows one
- * more variable when the global spin flip halves the space.
- */
-export function spectralLimit(problem: Problem): number {
-  const symmetric = problem.kind === "ising" && hasFlipSymmetry(problem.ising);
-  return Math.min(COST_VECTOR_MAX, lanczosMaxN(symmetric ? "symmetric" : "all"));
-}
+import { DEFAULT_SPECTRAL_OPTIONS } from "./spectral.js";
+import { spectralLeanScan } from "./spectral-lean.js";
+import { defaultSpectralMemory, memoryRefusal } from "./numerics/memory.js";
+import { buildSectorCost } from "./numerics/sector-cost.js";
 
 /**
  * Runs the spectral predictor at one (b, η).
  * @param optimum - exact optimum from ground truth, or null to take it from the cost vector.
+ * @param memory - allowance in bytes (default: 75% of physical memory).
+ * @throws InputError when the instance needs more memory than allowed (the message names both).
  */
-export function computeSpectral(problem: Problem, optimum: number | null, b: number, eta: number): Record<string, number | string | boolean | null> {
-  const n = sizeOf(problem);
-  const limit = spectralLimit(problem);
-  if (n > limit) throw new InputError(`spectral: n = ${n} is beyond the limit of ${limit} for exact state-vector numerics in 2 GiB`);
-  const costs = new Float64Array(2 ** n);
-  fillCostVector(problem, costs);
-  let best = optimum;
-  if (best === null) {
-    best = Infinity;
-    for (let z = 0; z < costs.length; z++) if (costs[z] < best) best = costs[z];
-  }
-  const result = spectralPredict(problem, costs, best, { ...DEFAULT_SPECTRAL_OPTIONS, b, eta });
-  return { ...result } as Record<string, number | string | boolean | null>;
+export function computeSpectral(
+  problem: Problem,
+  optimum: number | null,
+  b: number,
+  eta: number,
+  memory: number = defaultSpectralMemory(),
+): Record<string, number | string | boolean | null> {
+  const refusal = memoryRefusal("spectral", problem, memory);
+  if (refusal !== null) throw new InputError(refusal);
+  const cost = buildSectorCost(problem);
+  const [row] = spectralLeanScan(problem, cost, optimum ?? cost.min, [b], { ...DEFAULT_SPECTRAL_OPTIONS, eta });
+  return { ...row } as Record<string, number | string | boolean | null>;
 }

@@ -67,3 +67,32 @@ export function parseMemory(text: string): number | null {
   const bytes = Math.floor(value * scale);
   return bytes > 0 ? bytes : null;
 }
+
+/**
+ * Bytes per amplitude for a generated family before any instance exists (a study's check and its message):
+ * ksat 49 (50 beyond 255 clauses); sk and maxcut 28 (flip-symmetric); pspin 28 for even p, 56 for odd; folder
+ * families take the larger case (cnf 50, ising 56), since their files may differ.
+ */
+export function familyBytesPerAmplitude(family: string, params: Readonly<Record<string, unknown>>, n: number): number {
+  const vectors = 8 * LEAN_VECTORS;
+  switch (family) {
+    case "ksat": {
+      const clauses = Math.round(Number(params.density) * n);
+      return vectors + (clauses > 255 ? 2 : 1);
+    }
+    case "sk":
+    case "maxcut":
+      return (vectors + 8) / 2;
+    case "pspin":
+      return Number(params.p) % 2 === 0 ? (vectors + 8) / 2 : vectors + 8;
+    case "cnf":
+      return vectors + 2;
+    default:
+      return vectors + 8;
+  }
+}
+
+/** Bytes the largest spectral or adiabatic cell of a study at size n needs. */
+export function studyMemoryNeeded(family: string, params: Readonly<Record<string, unknown>>, n: number): number {
+  return familyBytesPerAmplitude(family, params, n) * 2 ** n + OVERHEAD_BYTES;
+}

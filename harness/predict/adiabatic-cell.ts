@@ -1,0 +1,29 @@
+/**
+ * One adiabatic computation on one instance, as a study cell or the `adiabatic` command runs it: the memory check
+ * (--spectral-memory), the cost in its working space, then the minimum-gap search of adiabatic.ts.
+ */
+import { InputError } from "../errors.js";
+import type { Problem } from "../model/problem.js";
+import { DEFAULT_ADIABATIC_OPTIONS, adiabaticGap } from "./adiabatic.js";
+import { defaultSpectralMemory, memoryRefusal } from "./numerics/memory.js";
+import { buildSectorCost } from "./numerics/sector-cost.js";
+
+/**
+ * Runs the adiabatic predictor.
+ * @param optimum - exact optimum from ground truth, or null to take it from the cost.
+ * @param grid - grid points on [0, 1] (default 21).
+ * @param memory - allowance in bytes (default: 75% of physical memory).
+ * @throws InputError when the instance needs more memory than allowed.
+ */
+export function computeAdiabatic(
+  problem: Problem,
+  optimum: number | null,
+  grid: number = DEFAULT_ADIABATIC_OPTIONS.grid,
+  memory: number = defaultSpectralMemory(),
+): Record<string, number | string | boolean | null> {
+  const refusal = memoryRefusal("adiabatic", problem, memory);
+  if (refusal !== null) throw new InputError(refusal);
+  const cost = buildSectorCost(problem);
+  const result = adiabaticGap(problem, cost, optimum ?? cost.min, { ...DEFAULT_ADIABATIC_OPTIONS, grid });
+  return { ...result };
+}
