@@ -77,6 +77,12 @@ async function main(): Promise<number> {
       async (a) => set(await commands.spectral(a)),
     )
     .command(
+      "adiabatic <file>",
+      "minimum gap of the adiabatic path H(s) = (1 − s)·Σ(1 − X_i)/2 + s·C for one instance file",
+      (y) => withOptions(y.positional("file", { type: "string" }).option("json", { type: "boolean", describe: "print one JSON object" }), ["predictors"], ["predict", "b", "b-scan", "eta"]),
+      async (a) => set(await commands.adiabatic(a)),
+    )
+    .command(
       "merge <out> <dirs..>",
       "join the shard folders of one study into OUT and write its tables",
       (y) => y.positional("out", { type: "string", describe: "merged output folder" }).positional("dirs", { type: "string", array: true, describe: "shard folders" }),

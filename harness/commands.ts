@@ -7,7 +7,7 @@ import { fileURLToPath } from "node:url";
 import { join, resolve } from "node:path";
 import { EXIT, InputError } from "./errors.js";
 import { OUT_FILES, runStudy, type RunSummary } from "./run.js";
-import { numberOption, parseDuration, parseShard, readStudyFolder, resolveFamilyParams, resolveStudy, parseSizeRange } from "./resolve.js";
+import { numberOption, parseDuration, parseShard, readStudyFolder, resolveFamilyParams, resolveStudy, parseSizeRange, resolveSpectralMemory } from "./resolve.js";
 import { consoleProgress } from "./progress.js";
 import { writeOutputs } from "./report/outputs.js";
 import { buildManifest } from "./manifest.js";
@@ -24,6 +24,8 @@ import { canonicalParams } from "./families/params.js";
 import { FAMILY_NAMES } from "./options.js";
 import { formatComparison } from "./report/paper.js";
 import { computeSpectral } from "./predict/spectral-cell.js";
+import { computeAdiabatic } from "./predict/adiabatic-cell.js";
+import { formatGiB, studyMemoryNeeded } from "./predict/numerics/memory.js";
 import { costModelRows } from "./predict/cost-table.js";
 import { mergeShards, writeMerged } from "./merge.js";
 import { DEFAULT_SPEED_TOLERANCE, compareFolders } from "./compare.js";
@@ -44,6 +46,11 @@ export async function run(argv: Args, rawArgs: ReadonlyArray<string>): Promise<n
   const budgetMs = argv.budget === undefined ? null : parseDuration(String(argv.budget), "--budget");
   const cellLimitMs = argv["cell-limit"] === undefined ? null : parseDuration(String(argv["cell-limit"]), "--cell-limit");
   const started = new Date();
+  const quantum = spec.predictors.filter((p) => p === "spectral" || p === "adiabatic");
+  if (quantum.length > 0 && spec.sizes.length > 0 && spec.spectral.memory !== undefined) {
+    const n = Math.max(...spec.sizes);
+    process.stderr.write(`speedbound: the largest ${quantum.join("/")} cell (n = ${n}) needs ${formatGiB(studyMemoryNeeded(spec.family, spec.familyParams, n))} of the ${formatGiB(spec.spectral.memory)} allowed (--spectral-memory)\n`);
+  }
   const summary = await runStudy(spec, { out, workers, budgetMs, cellLimitMs, shard, progress: consoleProgress(), graceMs: 10_000 });
   if (summary.tornJournalLine) process.stderr.write(`speedbound: warning: the journal's last line was torn (a killed run) and was dropped\n`);
   const { paper } = await writeOutputs(spec, out);
@@ -163,8 +170,21 @@ export async function spectral(argv: Args): Promise<number> {
   const eta = numberOption(argv, "eta") as number;
   const b = numberOption(argv, "b") as number;
   const start = process.hrtime.bigint();
-  const row = computeSpectral(problem, null, b, eta);
+  const row = computeSpectral(problem, null, b, eta, resolveSpectralMemory(argv));
   const result = { file, n: sizeOf(problem), ...row, wall_ns: Number(process.hrtime.bigint() - start) };
+  if (argv.json) process.stdout.write(JSON.stringify(result) + "\n");
+  else for (const [k, v] of Object.entries(result)) process.stdout.write(`${k.padEnd(22)} ${String(v)}\n`);
+  return EXIT.ok;
+}
+
+/** `speedbound adiabatic FILE`: the minimum gap along the adiabatic path for one instance, printed. */
+export async function adiabatic(argv: Args): Promise<number> {
+  const file = String(argv.file);
+  const problem = readProblemFile(file);
+  const grid = numberOption(argv, "adiabatic-grid") as number;
+  const start = process.hrtime.bigint();
+  const row = computeAdiabatic(problem, null, grid, resolveSpectralMemory(argv));
+  const result = { file, ...row, wall_ns: Number(process.hrtime.bigint() - start) };
   if (argv.json) process.stdout.write(JSON.stringify(result) + "\n");
   else for (const [k, v] of Object.entries(result)) process.stdout.write(`${k.padEnd(22)} ${String(v)}\n`);
   return EXIT.ok;

@@ -54,7 +54,13 @@ export interface SpectralRecord extends RecordBase {
   readonly row: Readonly<Record<string, number | string | boolean | null>>;
 }
 
-export type JournalRecord = TruthRecord | RunRecord | SpectralRecord;
+/** Adiabatic minimum gap (adiabatic.ts columns). */
+export interface AdiabaticRecord extends RecordBase {
+  readonly kind: "adiabatic";
+  readonly row: Readonly<Record<string, number | string | boolean | null>>;
+}
+
+export type JournalRecord = TruthRecord | RunRecord | SpectralRecord | AdiabaticRecord;
 
 /** What was read back from a journal file. */
 export interface JournalContents {

@@ -8,7 +8,7 @@ import { existsSync, mkdirSync, readFileSync } from "node:fs";
 import { join } from "node:path";
 import { InputError } from "./errors.js";
 import type { InstanceContext } from "./families/registry.js";
-import { JournalWriter, readJournal, type JournalRecord, type RunRecord, type SpectralRecord, type TruthRecord } from "./journal.js";
+import { JournalWriter, readJournal, type JournalRecord, type RunRecord, type SpectralRecord, type AdiabaticRecord, type TruthRecord } from "./journal.js";
 import { WorkerPool } from "./pool.js";
 import type { Progress } from "./progress.js";
 import { type Cell, type InstanceRef, type StudySpec, cellsOfInstance, instancesOf, shardInstances } from "./study.js";
@@ -17,6 +17,7 @@ import { writeFileAtomic } from "./files.js";
 import { mergeExact, planSlices } from "../solvers/exhaustive.js";
 import { materialise } from "./families/registry.js";
 import { costTolerance } from "./model/problem.js";
+import { DEFAULT_ADIABATIC_OPTIONS } from "./predict/adiabatic.js";
 
 /** How a run is carried out (not part of the study's identity). */
 export interface RunOptions {
@@ -225,13 +226,26 @@ export async function runStudy(spec: StudySpec, options: RunOptions): Promise<Ru
         }
       });
     }
+    if (cell.kind === "adiabatic") {
+      const arec = (extra: Partial<AdiabaticRecord>): AdiabaticRecord => ({ ...base, kind: "adiabatic", row: {}, status: "error", wall_ns: 0, message: "", ...extra });
+      if (truth.status !== "ok" || truth.optimum === null) return arec(withoutTruth(truth));
+      return withStopFlag(async (flag) => {
+        try {
+          const a = await pool.run<SpectralAnswer>({ type: "adiabatic", ctx: ctxOf(inst), optimum: truth.optimum as number, grid: spec.adiabatic?.grid ?? DEFAULT_ADIABATIC_OPTIONS.grid, memory: spec.spectral.memory, stop: flag });
+          const skipped = a.row.status === "skipped";
+          return arec({ status: skipped ? "skipped" : "ok", row: a.row, wall_ns: a.wall_ns, message: skipped ? String(a.row.reason) : "" });
+        } catch (e) {
+          return arec({ message: messageOf(e) });
+        }
+      });
+    }
     const rec = (extra: Partial<SpectralRecord>): SpectralRecord => ({
       ...base, kind: "spectral", b: cell.runLength ?? 0, row: {}, status: "error", wall_ns: 0, message: "", ...extra,
     });
     if (truth.status !== "ok" || truth.optimum === null) return rec(withoutTruth(truth));
     return withStopFlag(async (flag) => {
       try {
-        const a = await pool.run<SpectralAnswer>({ type: "spectral", ctx: ctxOf(inst), b: cell.runLength ?? 0, eta: spec.spectral.eta, optimum: truth.optimum as number, stop: flag });
+        const a = await pool.run<SpectralAnswer>({ type: "spectral", ctx: ctxOf(inst), b: cell.runLength ?? 0, eta: spec.spectral.eta, optimum: truth.optimum as number, memory: spec.spectral.memory, stop: flag });
         return rec({ status: "ok", row: a.row, wall_ns: a.wall_ns });
       } catch (e) {
         return rec({ message: messageOf(e) });

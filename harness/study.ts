@@ -52,7 +52,7 @@ export interface InstanceRef {
 }
 
 /** What a cell computes. */
-export type CellKind = "truth" | "run" | "spectral";
+export type CellKind = "truth" | "run" | "spectral" | "adiabatic";
 
 /** A unit of work and of journalling. */
 export interface Cell {
@@ -111,6 +111,9 @@ export function cellsOfInstance(spec: StudySpec, inst: InstanceRef): Cell[] {
     for (const b of spec.spectral.bValues) {
       cells.push({ key: `spectral|${inst.n}|${inst.index}|${b}`, kind: "spectral", instance: inst, method: "spectral", runLength: b, seed: cellSeed(spec, inst, "spectral", b) });
     }
+  }
+  if (spec.predictors.includes("adiabatic")) {
+    cells.push({ key: `adiabatic|${inst.n}|${inst.index}`, kind: "adiabatic", instance: inst, method: "adiabatic", runLength: null, seed: cellSeed(spec, inst, "adiabatic", null) });
   }
   return cells;
 }

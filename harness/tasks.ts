@@ -37,10 +37,22 @@ export interface SpectralTask {
   readonly b: number;
   readonly eta: number;
   readonly optimum: number;
+  /** Memory allowance, bytes (--spectral-memory); default 75% of physical memory. */
+  readonly memory?: number;
   readonly stop: Int32Array;
 }
 
-export type Task = TruthSliceTask | TrialsTask | SpectralTask;
+/** Adiabatic minimum gap on one instance. */
+export interface AdiabaticTask {
+  readonly type: "adiabatic";
+  readonly ctx: InstanceContext;
+  readonly optimum: number;
+  readonly grid: number;
+  readonly memory?: number;
+  readonly stop: Int32Array;
+}
+
+export type Task = TruthSliceTask | TrialsTask | SpectralTask | AdiabaticTask;
 
 /** Worker answer to a truth slice (the instance descriptors come along for instances.csv). */
 export interface TruthSliceAnswer {

@@ -10,6 +10,7 @@ import { exhaustiveSlice } from "../solvers/exhaustive.js";
 import { walkTrials } from "../solvers/walk.js";
 import { annealTrials, defaultBetaRange } from "../solvers/anneal.js";
 import { computeSpectral } from "./predict/spectral-cell.js";
+import { computeAdiabatic } from "./predict/adiabatic-cell.js";
 
 // Slices and runs of one instance usually reach the same worker in a row; regenerating is cheap for plain
 // draws but costs exact enumerations for --satisfiable/--unique, so the last instance is kept.
@@ -72,7 +73,13 @@ export default function handle(task: Task): TruthSliceAnswer | TrialsAnswer | Sp
     case "spectral": {
       const inst = instanceFor(task.ctx);
       const start = process.hrtime.bigint();
-      const row = computeSpectral(inst.problem, task.optimum, task.b, task.eta);
+      const row = computeSpectral(inst.problem, task.optimum, task.b, task.eta, task.memory);
+      return { row, wall_ns: elapsed(start) };
+    }
+    case "adiabatic": {
+      const inst = instanceFor(task.ctx);
+      const start = process.hrtime.bigint();
+      const row = computeAdiabatic(inst.problem, task.optimum, task.grid, task.memory);
       return { row, wall_ns: elapsed(start) };
     }
   }

@@ -100,7 +100,7 @@ describe("spectral memory", () => {
   });
   it("refuses with the memory n needs and the memory allowed", () => {
     const msg = memoryRefusal("spectral", random3Sat(20, "m"), 16 * 1024 ** 2);
-    expect(msg).toBe("spectral: n = 20 needs 0.06 GiB (49 bytes per amplitude × 2^20), but --spectral-memory allows 0.02 GiB");
+    expect(msg).toBe("spectral: n = 20 needs 65.0 MiB (49 bytes per amplitude × 2^20), but --spectral-memory allows 16.0 MiB");
     expect(memoryRefusal("spectral", random3Sat(20, "m"), 1024 ** 3)).toBeNull();
   });
   it("parses GiB, MiB and TiB", () => {

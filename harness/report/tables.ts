@@ -89,6 +89,16 @@ export function buildTables(spec: StudySpec, records: ReadonlyArray<JournalRecor
       ...s.row, wall_ns: s.wall_ns, message: s.message,
     } as PredictionRow);
   }
+  for (const a of records) {
+    if (a.kind !== "adiabatic" || !truthOf.has(`${a.n}|${a.index}`)) continue;
+    // The row's own status (ok or skipped) is the cell's; its `n` duplicates the key column.
+    const { status: _status, n: _n, ...row } = a.row;
+    predictions.push({
+      family: spec.family, n: a.n, instance: a.index, predictor: "adiabatic", status: a.status,
+      queries: null, queries_log2: null, queries_low: null, queries_high: null,
+      ...row, wall_ns: a.wall_ns, message: a.message,
+    } as PredictionRow);
+  }
   markBestB(predictions);
   predictions.sort((a, b) => a.n - b.n || a.instance - b.instance || a.predictor.localeCompare(b.predictor) || Number(a.b ?? 0) - Number(b.b ?? 0));
   return { instances, runs, predictions };

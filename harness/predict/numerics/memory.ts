@@ -36,8 +36,9 @@ export function spectralMemoryNeeded(problem: Problem): number {
   return bytesPerAmplitude(problem) * 2 ** sizeOf(problem) + OVERHEAD_BYTES;
 }
 
-/** Bytes as GiB with two decimals ("12.25 GiB"). */
+/** Bytes as GiB with two decimals ("12.25 GiB"), or MiB below 1 GiB ("48.0 MiB"). */
 export function formatGiB(bytes: number): string {
+  if (bytes < 1024 ** 3) return `${(bytes / 1024 ** 2).toFixed(1)} MiB`;
   return `${(bytes / 1024 ** 3).toFixed(2)} GiB`;
 }
 
