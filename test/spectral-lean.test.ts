@@ -10,7 +10,7 @@ import { fillCostVector } from "../harness/model/cost-vector.js";
 import type { Problem } from "../harness/model/problem.js";
 import { memoryRefusal, parseMemory, spectralMemoryNeeded } from "../harness/predict/numerics/memory.js";
 import { buildSectorCost, diagonalOf, setAffine } from "../harness/predict/numerics/sector-cost.js";
-import { applyOperator, diagonalAt, type TransverseFieldOperator } from "../harness/predict/numerics/transverse-field.js";
+import { applyOperator, applyOperatorBlocked, diagonalAt, type TransverseFieldOperator } from "../harness/predict/numerics/transverse-field.js";
 import { spectralPredict } from "../harness/predict/spectral.js";
 import { spectralLeanScan } from "../harness/predict/spectral-lean.js";
 import { Rng } from "../harness/random.js";
@@ -39,9 +39,11 @@ function plainProduct(op: TransverseFieldOperator, v: Float64Array): Float64Arra
   return w;
 }
 
-describe("cache-blocked transverse-field product", () => {
-  for (const [label, problem] of [["3-SAT n = 19", random3Sat(19, "blocked")], ["SK n = 20 (sector)", sk(20, "blocked")]] as const) {
-    it(`equals the per-bit product on ${label} (pass A and pass B both used)`, () => {
+describe("transverse-field products (fused and cache-blocked)", () => {
+  const cases = [["3-SAT n = 19", random3Sat(19, "blocked")], ["SK n = 20 (sector)", sk(20, "blocked")]] as const;
+  for (const [kernel, apply] of [["fused", applyOperator], ["blocked", applyOperatorBlocked]] as const)
+  for (const [label, problem] of cases) {
+    it(`${kernel} equals the per-bit product on ${label}`, () => {
       const cost = buildSectorCost(problem);
       const op: TransverseFieldOperator = { dim: cost.dim, bits: cost.bits, mirror: cost.symmetric, field: 0.37, diagonal: diagonalOf(cost) };
       setAffine(op.diagonal, 0.3, -1.1, 0.2);
@@ -49,7 +51,7 @@ describe("cache-blocked transverse-field product", () => {
       const v = new Float64Array(cost.dim).map(() => rng.nextDouble() - 0.5);
       const prev = new Float64Array(cost.dim).map(() => rng.nextDouble() - 0.5);
       const w = new Float64Array(cost.dim);
-      const alpha = applyOperator(op, v, 1.5, prev, 0.25, w);
+      const alpha = apply(op, v, 1.5, prev, 0.25, w);
       const ref = plainProduct(op, v);
       let err = 0;
       let dot = 0;

@@ -11,13 +11,17 @@
  * Sectors: with `mirror` the vector holds the flip-symmetric sector (amplitudes of z with the top qubit 0) and the
  * top qubit's flip maps z to dim − 1 − z.
  *
- * Product, cache-blocked (measured on the 2-core EPYC VM, see test/bench/spectral.bench.ts):
+ * Product: {@link applyOperator}, one fused pass over v (eight amplitudes in registers, the three low flips inside
+ * the group, every higher flip read from the partner's 64-byte line, the diagonal computed inline).
+ * A cache-blocked variant, {@link applyOperatorBlocked}, is kept for comparison:
  *   pass A, per block of 2^BLOCK_BITS contiguous amplitudes (256 KiB of v, inside the 2 MiB L2): the diagonal, the
- *          recurrence term and every flip of a bit inside the block (eight amplitudes in registers, partners in L2);
+ *          recurrence term and every flip of a bit inside the block;
  *   pass B, for the bits above the block, HIGH_GROUP_BITS at a time: 2^g chunks of CHUNK amplitudes that differ only
  *          in those bits are read together (their union fits in L2), so one pass over memory applies g flips.
- * A flip of a high bit thus costs one streamed read of v and a read-modify-write of w per g bits, instead of one
- * far read of v per bit.
+ * Measured on the 2-core EPYC VM (CPU time, n = 22, 3-SAT levels, the machine shared with other jobs): fused
+ * 95–135 ms, blocked 158–236 ms per product. A single thread is limited by the n loads and adds per amplitude,
+ * not by memory traffic, so the blocked variant's extra passes cost more than its saved far reads; the fused
+ * kernel is the one the solver uses.
  */
 
 /** Cost levels per amplitude and the diagonal value of each level. */
@@ -67,9 +71,136 @@ export function diagonalAt(d: Diagonal, z: number): number {
 
 /**
  * w = σ·(H v) − γ·vprev; returns wᵀv. v, vprev, w have length op.dim (≥ 2); w must differ from v and vprev
- * (vprev may equal v when γ = 0).
+ * (vprev may equal v when γ = 0). One fused pass: eight amplitudes in registers, every flip read from its partner
+ * cache line, the diagonal computed inline (see the module comment for why this, not the blocked variant).
  */
 export function applyOperator(
+  op: TransverseFieldOperator,
+  v: Float64Array,
+  sigma: number,
+  vprev: Float64Array,
+  gamma: number,
+  w: Float64Array,
+): number {
+  if (op.dim < 8) return applySmall(op, v, sigma, vprev, gamma, w);
+  const d = op.diagonal;
+  const mirror = op.mirror ? op.dim - 1 : -1;
+  return d.kind === "levels"
+    ? fusedLevels(op.dim, d.levels, d.table, -sigma * op.field, v, sigma, vprev, gamma, w, mirror)
+    : fusedAffine(op.dim, d.costs, d.scale, d.shift, d.cap, -sigma * op.field, v, sigma, vprev, gamma, w, mirror);
+}
+
+/** Σ_i v[z ^ bit_i] for eight amplitudes z … z+7 (all bits below dim, plus the mirror partner when mirror ≥ 0). */
+const flipSums = new Float64Array(8);
+
+/** Fills {@link flipSums} for the group at z (z a multiple of 8). */
+function groupFlips(v: Float64Array, z: number, dim: number, mirror: number): void {
+  const v0 = v[z];
+  const v1 = v[z + 1];
+  const v2 = v[z + 2];
+  const v3 = v[z + 3];
+  const v4 = v[z + 4];
+  const v5 = v[z + 5];
+  const v6 = v[z + 6];
+  const v7 = v[z + 7];
+  let s0 = v1 + v2 + v4;
+  let s1 = v0 + v3 + v5;
+  let s2 = v3 + v0 + v6;
+  let s3 = v2 + v1 + v7;
+  let s4 = v5 + v6 + v0;
+  let s5 = v4 + v7 + v1;
+  let s6 = v7 + v4 + v2;
+  let s7 = v6 + v5 + v3;
+  for (let bit = 8; bit < dim; bit <<= 1) {
+    const p = z ^ bit;
+    s0 += v[p];
+    s1 += v[p + 1];
+    s2 += v[p + 2];
+    s3 += v[p + 3];
+    s4 += v[p + 4];
+    s5 += v[p + 5];
+    s6 += v[p + 6];
+    s7 += v[p + 7];
+  }
+  if (mirror >= 0) {
+    const q = mirror - z;
+    s0 += v[q];
+    s1 += v[q - 1];
+    s2 += v[q - 2];
+    s3 += v[q - 3];
+    s4 += v[q - 4];
+    s5 += v[q - 5];
+    s6 += v[q - 6];
+    s7 += v[q - 7];
+  }
+  flipSums[0] = s0;
+  flipSums[1] = s1;
+  flipSums[2] = s2;
+  flipSums[3] = s3;
+  flipSums[4] = s4;
+  flipSums[5] = s5;
+  flipSums[6] = s6;
+  flipSums[7] = s7;
+}
+
+/** Fused product with a level diagonal. */
+function fusedLevels(
+  dim: number,
+  levels: Uint8Array | Uint16Array,
+  table: Float64Array,
+  sx: number,
+  v: Float64Array,
+  sigma: number,
+  vprev: Float64Array,
+  gamma: number,
+  w: Float64Array,
+  mirror: number,
+): number {
+  let alpha = 0;
+  for (let z = 0; z < dim; z += 8) {
+    groupFlips(v, z, dim, mirror);
+    for (let k = 0; k < 8; k++) {
+      const x = sigma * table[levels[z + k]] * v[z + k] + sx * flipSums[k] - gamma * vprev[z + k];
+      w[z + k] = x;
+      alpha += x * v[z + k];
+    }
+  }
+  return alpha;
+}
+
+/** Fused product with an affine diagonal min(cap, scale·C + shift). */
+function fusedAffine(
+  dim: number,
+  costs: Float64Array,
+  scale: number,
+  shift: number,
+  cap: number,
+  sx: number,
+  v: Float64Array,
+  sigma: number,
+  vprev: Float64Array,
+  gamma: number,
+  w: Float64Array,
+  mirror: number,
+): number {
+  let alpha = 0;
+  for (let z = 0; z < dim; z += 8) {
+    groupFlips(v, z, dim, mirror);
+    for (let k = 0; k < 8; k++) {
+      const y = scale * costs[z + k] + shift;
+      const x = sigma * (y < cap ? y : cap) * v[z + k] + sx * flipSums[k] - gamma * vprev[z + k];
+      w[z + k] = x;
+      alpha += x * v[z + k];
+    }
+  }
+  return alpha;
+}
+
+/**
+ * The same product cache-blocked (pass A in blocks, pass B for the high bits HIGH_GROUP_BITS at a time); kept for the
+ * benchmark's comparison and the tests, not used by the solver (see the module comment).
+ */
+export function applyOperatorBlocked(
   op: TransverseFieldOperator,
   v: Float64Array,
   sigma: number,

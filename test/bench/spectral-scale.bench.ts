@@ -1,0 +1,118 @@
+/**
+ * Spectral numerics at workstation scale (issue "quantum-side numerics"): the transverse-field product against the
+ * memory-bandwidth floor, and whole (b, η) points on the memory-lean path.
+ *
+ * 1. For n = 22, 24, 26, 28 (3-SAT, full space, one-byte levels): seconds per product w = σHv − γv', the bytes a
+ *    product must move at least (read v, v', the levels; write w: 8 + 8 + 1 + 8 = 25 bytes per amplitude), the copy
+ *    bandwidth of a STREAM-style triad a = b + s·c measured in the same run (24 bytes per element, the STREAM
+ *    convention: McCalpin, "Memory bandwidth and machine balance in current high performance computers", IEEE TCCA
+ *    Newsletter, 1995), and the ratio product time / (bytes / bandwidth). Target: within 3× at n ≥ 24.
+ *    n = 28 needs 6.3 GiB: it runs only when there is room (75% of physical memory).
+ * 2. One (b, η) = (0.7, 0.5) point (e0, e1, both overlaps) on planted 3-SAT n = 26 (target < 4 min) and SK n = 24,
+ *    symmetric sector (target < 10 s). The 3-SAT n = 28 point (target < 15 min) runs only with
+ *    SPEEDBOUND_BENCH_N28=1 (too long for routine runs).
+ * Plain timing loops: one call is seconds to minutes.
+ */
+import os from "node:os";
+import { performance } from "node:perf_hooks";
+import process from "node:process";
+import { ksatFamily } from "../../harness/families/ksat.js";
+import { skFamily } from "../../harness/families/sk.js";
+import type { Problem } from "../../harness/model/problem.js";
+import { buildSectorCost, diagonalOf, setAffine } from "../../harness/predict/numerics/sector-cost.js";
+import { applyOperator, type TransverseFieldOperator } from "../../harness/predict/numerics/transverse-field.js";
+import { spectralMemoryNeeded } from "../../harness/predict/numerics/memory.js";
+import { DEFAULT_SPECTRAL_OPTIONS } from "../../harness/predict/spectral.js";
+import { spectralLeanScan } from "../../harness/predict/spectral-lean.js";
+
+const TRIAD_BYTES = 24;
+
+function planted3Sat(n: number): Problem {
+  return ksatFamily.generate("bench-scale", { k: 3, density: 4.26, planted: true, satisfiable: false, unique: false }, n, 0).problem;
+}
+
+function skInstance(n: number): Problem {
+  return skFamily.generate("bench-scale", { couplings: "gauss" }, n, 0).problem;
+}
+
+/** STREAM-style triad over three vectors of `len` doubles: best of 3, bytes per second. */
+function triadBandwidth(a: Float64Array, b: Float64Array, c: Float64Array): number {
+  let best = Infinity;
+  for (let r = 0; r < 3; r++) {
+    const t = performance.now();
+    const s = 0.5 + r;
+    for (let i = 0; i < a.length; i++) a[i] = b[i] + s * c[i];
+    best = Math.min(best, (performance.now() - t) / 1000);
+  }
+  return (TRIAD_BYTES * a.length) / best;
+}
+
+function matvecRow(n: number): void {
+  const problem = planted3Sat(n);
+  const cost = buildSectorCost(problem);
+  const dim = cost.dim;
+  const v = cost.spare ?? new Float64Array(dim);
+  cost.spare = null;
+  const prev = new Float64Array(dim);
+  const w = new Float64Array(dim);
+  for (let z = 0; z < dim; z++) {
+    v[z] = Math.sin(z);
+    prev[z] = Math.cos(z);
+  }
+  const bandwidth = triadBandwidth(w, v, prev);
+  const op: TransverseFieldOperator = { dim, bits: cost.bits, mirror: false, field: 1 / n, diagonal: diagonalOf(cost) };
+  setAffine(op.diagonal, 0.1, -0.5, 0);
+  applyOperator(op, v, 1, prev, 0.3, w); // warm
+  const reps = n >= 26 ? 2 : 4;
+  let best = Infinity;
+  for (let r = 0; r < reps; r++) {
+    const t = performance.now();
+    applyOperator(op, v, 1, prev, 0.3, w);
+    best = Math.min(best, (performance.now() - t) / 1000);
+  }
+  const bytes = 25 * dim;
+  const floor = bytes / bandwidth;
+  console.log(
+    `matvec 3-SAT n=${n}: ${best.toFixed(3)} s per product, ${(bytes / 1024 ** 3).toFixed(2)} GiB moved at least, ` +
+      `triad ${(bandwidth / 1e9).toFixed(1)} GB/s → floor ${floor.toFixed(3)} s, ratio ${(best / floor).toFixed(2)}× ` +
+      `(${((best * 1e9) / (dim * n)).toFixed(3)} ns per amplitude·flip)${n >= 24 ? (best / floor <= 3 ? "  [target ≤ 3×: met]" : "  [target ≤ 3×: NOT met]") : ""}`,
+  );
+}
+
+function pointRow(label: string, problem: Problem, target: number): void {
+  const t = performance.now();
+  const cost = buildSectorCost(problem);
+  const built = (performance.now() - t) / 1000;
+  const [row] = spectralLeanScan(problem, cost, cost.min, [0.7], { ...DEFAULT_SPECTRAL_OPTIONS, eta: 0.5 });
+  const wall = (performance.now() - t) / 1000;
+  console.log(
+    `point ${label} (b, η) = (0.7, 0.5), ${row.sector}: ${wall.toFixed(1)} s (cost ${built.toFixed(1)} s), ${row.iterations} products, ` +
+      `e0 ${row.e0.toFixed(9)}, e1 ${row.e1.toFixed(9)}, overlap_start ${row.overlap_start.toExponential(4)}, ` +
+      `overlap_opt ${row.overlap_opt.toExponential(4)}, residual ${row.residual.toExponential(1)} ` +
+      `[target < ${target} s: ${wall < target ? "met" : "NOT met"}]`,
+  );
+}
+
+/** Prints the figures. */
+export async function run(): Promise<void> {
+  const allowed = 0.75 * os.totalmem();
+  for (const n of [22, 24, 26, 28]) {
+    const need = 8 * 3 * 2 ** n + 2 ** n;
+    if (need > allowed) {
+      console.log(`matvec 3-SAT n=${n}: skipped (needs ${(need / 1024 ** 3).toFixed(1)} GiB)`);
+      continue;
+    }
+    matvecRow(n);
+  }
+  pointRow("SK n=24", skInstance(24), 10);
+  pointRow("3-SAT n=26", planted3Sat(26), 240);
+  if (process.env.SPEEDBOUND_BENCH_N28 === "1") {
+    const p = planted3Sat(28);
+    if (spectralMemoryNeeded(p) > allowed) console.log("point 3-SAT n=28: skipped (memory)");
+    else pointRow("3-SAT n=28", p, 900);
+  } else {
+    console.log("point 3-SAT n=28: not run (set SPEEDBOUND_BENCH_N28=1; about 12.3 GiB and several minutes)");
+  }
+}
+
+if (process.argv[1]?.endsWith("spectral-scale.bench.js")) await run();
