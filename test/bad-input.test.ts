@@ -35,7 +35,10 @@ const cases: Array<{ name: string; args: (out: string) => string[]; pattern: Reg
   { name: "unknown predictor", args: (o) => ["run", "--predict", "qaoa", "--out", o], pattern: /--predict: unknown value 'qaoa'/ },
   { name: "unknown option", args: (o) => ["run", "--sizes", "10", "--out", o], pattern: /Unknown argument: sizes/ },
   { name: "size beyond the exact limit", args: (o) => ["run", "--n", "30:70:10", "--out", o], pattern: /--n: size 70 is beyond the exact-enumeration limit/ },
-  { name: "spectral beyond its memory limit", args: (o) => ["run", "--family", "ksat", "--n", "20:26:2", "--predict", "spectral", "--out", o], pattern: /--predict: spectral needs n ≤ 24/ },
+  // 49 bytes per amplitude for 3-SAT (README, "Memory of the state-vector numerics"): 49·2^26 B + 16 MiB = 3.08 GiB.
+  { name: "spectral beyond its memory allowance", args: (o) => ["run", "--family", "ksat", "--n", "20:26:2", "--predict", "spectral", "--spectral-memory", "1", "--out", o], pattern: /--predict: spectral at n = 26 needs 3\.08 GiB \(49 bytes per amplitude × 2\^26\), but --spectral-memory allows 1\.00 GiB/ },
+  { name: "adiabatic beyond its memory allowance", args: (o) => ["run", "--family", "sk", "--n", "20:24:2", "--predict", "adiabatic", "--spectral-memory", "256MiB", "--out", o], pattern: /--predict: adiabatic at n = 24 needs 464\.0 MiB \(28 bytes per amplitude × 2\^24\), but --spectral-memory allows 256\.0 MiB/ },
+  { name: "bad memory size", args: (o) => ["run", "--predict", "spectral", "--spectral-memory", "lots", "--out", o], pattern: /--spectral-memory: 'lots' is not a positive size/ },
   { name: "walk on a spin family", args: (o) => ["run", "--family", "sk", "--solvers", "walk", "--out", o], pattern: /--solvers: walk .* applies to k-SAT\/CNF families only/ },
   { name: "impossible regular graph", args: (o) => ["run", "--family", "maxcut", "--n", "7", "--degree", "3", "--out", o], pattern: /--n: no simple 3-regular graph on 7 vertices/ },
   { name: "missing input folder", args: (o) => ["run", "--family", "cnf", "--from", join(root, "nope"), "--out", o], pattern: /--from: folder '.*nope' does not exist/ },

@@ -85,6 +85,33 @@ describe("cost, spectral", () => {
     expect(o.overlap_start).toBeGreaterThan(0);
     expect(o.overlap_start).toBeLessThanOrEqual(1);
   });
+
+  it("adiabatic prints one JSON object with the minimum gap (unique 3-SAT instance)", () => {
+    const inst = cli(["instance", "--family", "ksat", "--n", "9", "--seed", "7", "--unique"]);
+    const file = join(root, "u.cnf");
+    writeFileSync(file, inst.stdout);
+    const r = cli(["adiabatic", file, "--adiabatic-grid", "11", "--json"]);
+    expect(r.code, r.stderr).toBe(0);
+    const o = JSON.parse(r.stdout);
+    expect(o.n).toBe(9);
+    expect(o.status).toBe("ok");
+    expect(o.s_star).toBeGreaterThan(0);
+    expect(o.s_star).toBeLessThan(1);
+    expect(o.gap_min).toBeGreaterThan(0);
+    expect(o.gap_min).toBeLessThan(1); // gap(0) = 1 on this path
+    expect(o.solves).toBeGreaterThan(9); // the 9 interior grid points, then Brent
+    expect(o.runtime_scale).toBeCloseTo(1 / o.gap_min ** 2, 9);
+    expect(o).toHaveProperty("e0");
+  });
+
+  it("spectral refuses an instance beyond --spectral-memory, naming both sizes", () => {
+    const inst = cli(["instance", "--family", "ksat", "--n", "16", "--seed", "7"]);
+    const file = join(root, "m.cnf");
+    writeFileSync(file, inst.stdout);
+    const r = cli(["spectral", file, "--spectral-memory", "2MiB"]);
+    expect(r.code).toBe(2);
+    expect(r.stderr).toMatch(/spectral: n = 16 needs 19\.1 MiB \(49 bytes per amplitude × 2\^16\), but --spectral-memory allows 2\.0 MiB/);
+  });
 });
 
 describe.skipIf(!HAVE_SATLIB)("a study over a folder of DIMACS files", () => {

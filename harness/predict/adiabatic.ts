@@ -19,7 +19,8 @@
  * spacing: the default 21 points is a stated choice, not a guarantee.
  *
  * Runtime scale: 1/gap_min², the standard adiabatic-condition scale T ≫ max|⟨1|dH/ds|0⟩|/gap_min² (e.g. Farhi et
- * al., arXiv:quant-ph/0001106, eq. 2.8), up to the matrix-element factor, which we do not compute. It is reported in
+ * al., "Quantum computation by adiabatic evolution", arXiv:quant-ph/0001106, §2; the long version of the Science paper,
+ * arXiv:quant-ph/0104129, states the same condition), up to the matrix-element factor, which we do not compute. It is reported in
  * `runtime_scale` and, so that the study fits and compares it like the other predictors, in `queries`.
  */
 import { costTolerance, type Problem } from "../model/problem.js";
