@@ -23,6 +23,9 @@ function describe(o: OptionSpec): string {
   return bits.join(" ");
 }
 
+/** --threads of the one-instance numerics commands (spectral, adiabatic). */
+const THREADS_OPTION: Options = { type: "string", requiresArg: true, describe: "threads sharing each product of one instance (default: available cores)" };
+
 /** Adds the declared options of the given groups to a command. */
 function withOptions(y: Argv, groups: ReadonlyArray<OptionSpec["group"]>, skip: ReadonlyArray<string> = []): Argv {
   for (const o of STUDY_OPTIONS) {
@@ -73,13 +76,13 @@ async function main(): Promise<number> {
     .command(
       "spectral <file>",
       "spectral-method numerics (ground state of the filtered Hamiltonian) for one instance file",
-      (y) => withOptions(y.positional("file", { type: "string" }).option("json", { type: "boolean", describe: "print one JSON object" }), ["predictors"], ["predict"]),
+      (y) => withOptions(y.positional("file", { type: "string" }).option("json", { type: "boolean", describe: "print one JSON object" }).option("threads", THREADS_OPTION), ["predictors"], ["predict", "adiabatic-grid"]),
       async (a) => set(await commands.spectral(a)),
     )
     .command(
       "adiabatic <file>",
       "minimum gap of the adiabatic path H(s) = (1 − s)·Σ(1 − X_i)/2 + s·C for one instance file",
-      (y) => withOptions(y.positional("file", { type: "string" }).option("json", { type: "boolean", describe: "print one JSON object" }), ["predictors"], ["predict", "b", "b-scan", "eta"]),
+      (y) => withOptions(y.positional("file", { type: "string" }).option("json", { type: "boolean", describe: "print one JSON object" }).option("threads", THREADS_OPTION), ["predictors"], ["predict", "b", "b-scan", "eta"]),
       async (a) => set(await commands.adiabatic(a)),
     )
     .command(

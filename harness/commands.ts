@@ -37,6 +37,14 @@ function workersOf(argv: Args): number {
   return numberOption(argv, "workers") ?? Math.max(1, availableParallelism());
 }
 
+/** --threads of spectral/adiabatic: a whole number 1..64, default the available cores. */
+function threadsOf(argv: Args): number {
+  if (argv.threads === undefined) return Math.max(1, availableParallelism());
+  const t = Number(argv.threads);
+  if (!Number.isInteger(t) || t < 1 || t > 64) throw new InputError(`--threads: '${String(argv.threads)}' is not a whole number from 1 to 64`);
+  return t;
+}
+
 /** `speedbound run`: resolve, run (or resume), write tables and manifest, print the comparison. */
 export async function run(argv: Args, rawArgs: ReadonlyArray<string>): Promise<number> {
   const spec = resolveStudy(argv);
@@ -170,7 +178,8 @@ export async function spectral(argv: Args): Promise<number> {
   const eta = numberOption(argv, "eta") as number;
   const b = numberOption(argv, "b") as number;
   const start = process.hrtime.bigint();
-  const row = computeSpectral(problem, null, b, eta, resolveSpectralMemory(argv));
+  // One instance on its own: every core works on its products.
+  const row = computeSpectral(problem, null, b, eta, resolveSpectralMemory(argv), threadsOf(argv));
   const result = { file, n: sizeOf(problem), ...row, wall_ns: Number(process.hrtime.bigint() - start) };
   if (argv.json) process.stdout.write(JSON.stringify(result) + "\n");
   else for (const [k, v] of Object.entries(result)) process.stdout.write(`${k.padEnd(22)} ${String(v)}\n`);
@@ -183,7 +192,7 @@ export async function adiabatic(argv: Args): Promise<number> {
   const problem = readProblemFile(file);
   const grid = numberOption(argv, "adiabatic-grid") as number;
   const start = process.hrtime.bigint();
-  const row = computeAdiabatic(problem, null, grid, resolveSpectralMemory(argv));
+  const row = computeAdiabatic(problem, null, grid, resolveSpectralMemory(argv), threadsOf(argv));
   const result = { file, ...row, wall_ns: Number(process.hrtime.bigint() - start) };
   if (argv.json) process.stdout.write(JSON.stringify(result) + "\n");
   else for (const [k, v] of Object.entries(result)) process.stdout.write(`${k.padEnd(22)} ${String(v)}\n`);

@@ -104,6 +104,20 @@ describe("cost, spectral", () => {
     expect(o).toHaveProperty("e0");
   });
 
+  it("spectral with two threads sharing each product agrees with one thread (SK n = 17: 2^16 amplitudes, the team's threshold)", () => {
+    const inst = cli(["instance", "--family", "sk", "--n", "17", "--seed", "7"]);
+    const file = join(root, "t.txt");
+    writeFileSync(file, inst.stdout);
+    const [one, two] = ["1", "2"].map((t) => cli(["spectral", file, "--threads", t, "--json"]));
+    expect(one.code, one.stderr).toBe(0);
+    expect(two.code, two.stderr).toBe(0);
+    const a = JSON.parse(one.stdout);
+    const b = JSON.parse(two.stdout);
+    expect(a.sector).toBe("symmetric");
+    // Same products amplitude by amplitude; only the order of the wᵀv partial sums differs.
+    for (const key of ["e0", "e1", "overlap_start", "overlap_opt"]) expect(Math.abs(a[key] - b[key])).toBeLessThan(1e-11);
+  });
+
   it("spectral refuses an instance beyond --spectral-memory, naming both sizes", () => {
     const inst = cli(["instance", "--family", "ksat", "--n", "16", "--seed", "7"]);
     const file = join(root, "m.cnf");

@@ -13,6 +13,7 @@ import { buildSectorCost } from "./numerics/sector-cost.js";
  * @param optimum - exact optimum from ground truth, or null to take it from the cost.
  * @param grid - grid points on [0, 1] (default 21).
  * @param memory - allowance in bytes (default: 75% of physical memory).
+ * @param threads - threads for the products of one large solve (default 1: study cells already fill the cores).
  * @throws InputError when the instance needs more memory than allowed.
  */
 export function computeAdiabatic(
@@ -20,10 +21,11 @@ export function computeAdiabatic(
   optimum: number | null,
   grid: number = DEFAULT_ADIABATIC_OPTIONS.grid,
   memory: number = defaultSpectralMemory(),
+  threads = 1,
 ): Record<string, number | string | boolean | null> {
   const refusal = memoryRefusal("adiabatic", problem, memory);
   if (refusal !== null) throw new InputError(refusal);
-  const cost = buildSectorCost(problem);
-  const result = adiabaticGap(problem, cost, optimum ?? cost.min, { ...DEFAULT_ADIABATIC_OPTIONS, grid });
+  const cost = buildSectorCost(problem, threads > 1);
+  const result = adiabaticGap(problem, cost, optimum ?? cost.min, { ...DEFAULT_ADIABATIC_OPTIONS, grid }, threads);
   return { ...result };
 }

@@ -25,7 +25,8 @@
  */
 import { costTolerance, type Problem } from "../model/problem.js";
 import { LeanVectorPool, leanLowestEigenpairs } from "./numerics/lean-lanczos.js";
-import { type SectorCost, countOptima, diagonalOf, setAffine } from "./numerics/sector-cost.js";
+import { type SectorCost, countOptima, diagonalOf, isShared, setAffine } from "./numerics/sector-cost.js";
+import { ProductTeam, TEAM_MIN_DIM } from "./numerics/product-team.js";
 import type { TransverseFieldOperator } from "./numerics/transverse-field.js";
 
 /** Options of {@link adiabaticGap}. */
@@ -107,8 +108,9 @@ export class AdiabaticPath {
     private readonly optimum: number,
     tolerance: number,
     private readonly options: AdiabaticOptions,
+    private readonly team?: ProductTeam,
   ) {
-    this.pool = new LeanVectorPool(cost.dim);
+    this.pool = new LeanVectorPool(cost.dim, isShared(cost));
     if (cost.spare !== null) {
       this.pool.give(cost.spare);
       cost.spare = null;
@@ -146,6 +148,7 @@ export class AdiabaticPath {
       maxIterations: this.options.maxIterations,
       seed: this.options.seed,
       pool: this.pool,
+      team: this.team,
     });
     this.pool.give(eig.psi0);
     this.solves++;
@@ -167,7 +170,7 @@ export class AdiabaticPath {
  * @param cost - from buildSectorCost (its spare buffer is taken into the vector pool).
  * @param optimum - the exact optimum C* of the raw cost.
  */
-export function adiabaticGap(problem: Problem, cost: SectorCost, optimum: number, options: AdiabaticOptions): AdiabaticResult {
+export function adiabaticGap(problem: Problem, cost: SectorCost, optimum: number, options: AdiabaticOptions, threads = 1): AdiabaticResult {
   const grid = Math.floor(options.grid);
   if (!(grid >= 3)) throw new Error(`adiabatic: grid = ${options.grid} must be at least 3 points`);
   if (!Number.isFinite(optimum)) throw new Error(`adiabatic: optimum = ${optimum} must be finite`);
@@ -184,7 +187,16 @@ export function adiabaticGap(problem: Problem, cost: SectorCost, optimum: number
     const what = cost.symmetric ? `${optima / 2} mirror pairs` : `${optima} configurations`;
     return { ...base, status: "skipped", reason: `not applicable: ${what} reach the optimum; the minimum gap needs a unique optimum${cost.symmetric ? " up to the global flip" : ""}` };
   }
-  const path = new AdiabaticPath(cost, optimum, tol, options);
+  const team = isShared(cost) && threads > 1 && cost.dim >= TEAM_MIN_DIM ? new ProductTeam(threads) : undefined;
+  try {
+    return search(base, new AdiabaticPath(cost, optimum, tol, options, team), grid, options);
+  } finally {
+    team?.close();
+  }
+}
+
+/** Grid, then Brent (see the module comment). */
+function search(base: AdiabaticResult, path: AdiabaticPath, grid: number, options: AdiabaticOptions): AdiabaticResult {
   // 1. Grid.
   const s = (i: number): number => i / (grid - 1);
   let best = 0;

@@ -14,6 +14,7 @@ import { buildSectorCost } from "./numerics/sector-cost.js";
  * Runs the spectral predictor at one (b, η).
  * @param optimum - exact optimum from ground truth, or null to take it from the cost vector.
  * @param memory - allowance in bytes (default: 75% of physical memory).
+ * @param threads - threads for the products (default 1: study cells already fill the cores).
  * @throws InputError when the instance needs more memory than allowed (the message names both).
  */
 export function computeSpectral(
@@ -22,10 +23,11 @@ export function computeSpectral(
   b: number,
   eta: number,
   memory: number = defaultSpectralMemory(),
+  threads = 1,
 ): Record<string, number | string | boolean | null> {
   const refusal = memoryRefusal("spectral", problem, memory);
   if (refusal !== null) throw new InputError(refusal);
-  const cost = buildSectorCost(problem);
-  const [row] = spectralLeanScan(problem, cost, optimum ?? cost.min, [b], { ...DEFAULT_SPECTRAL_OPTIONS, eta });
+  const cost = buildSectorCost(problem, threads > 1);
+  const [row] = spectralLeanScan(problem, cost, optimum ?? cost.min, [b], { ...DEFAULT_SPECTRAL_OPTIONS, eta }, threads);
   return { ...row } as Record<string, number | string | boolean | null>;
 }

@@ -7,7 +7,8 @@
  */
 import { costTolerance, type Problem } from "../model/problem.js";
 import { LeanVectorPool, leanLowestEigenpairs } from "./numerics/lean-lanczos.js";
-import { type SectorCost, countOptima, diagonalOf, optimalWeight, setAffine } from "./numerics/sector-cost.js";
+import { type SectorCost, countOptima, diagonalOf, isShared, optimalWeight, setAffine } from "./numerics/sector-cost.js";
+import { ProductTeam, TEAM_MIN_DIM } from "./numerics/product-team.js";
 import type { TransverseFieldOperator } from "./numerics/transverse-field.js";
 import { DEFAULT_SPECTRAL_OPTIONS, type SpectralOptions, type SpectralResult, spectralPhaseFactor } from "./spectral.js";
 
@@ -23,6 +24,7 @@ export function spectralLeanScan(
   optimum: number,
   bValues: readonly number[],
   options: Omit<SpectralOptions, "b" | "sector">,
+  threads = 1,
 ): SpectralResult[] {
   const tol = options.costTolerance ?? costTolerance(problem);
   if (!Number.isFinite(optimum)) throw new Error(`spectral: optimum = ${optimum} must be finite`);
@@ -37,7 +39,31 @@ export function spectralLeanScan(
   const { eta } = options;
   if (!(eta >= 0 && eta < 1)) throw new Error(`spectral: eta = ${eta} must lie in [0, 1)`);
   if (!(options.tolerance > 0)) throw new Error(`spectral: tolerance = ${options.tolerance} must be > 0`);
-  const pool = new LeanVectorPool(cost.dim);
+  const shared = isShared(cost);
+  const team = shared && threads > 1 && cost.dim >= TEAM_MIN_DIM ? new ProductTeam(threads) : undefined;
+  try {
+    return scan(problem, cost, optimum, bValues, options, tol, optima, mean, scale, shared, team);
+  } finally {
+    team?.close();
+  }
+}
+
+/** The rows of {@link spectralLeanScan} once the inputs are checked. */
+function scan(
+  problem: Problem,
+  cost: SectorCost,
+  optimum: number,
+  bValues: readonly number[],
+  options: Omit<SpectralOptions, "b" | "sector">,
+  tol: number,
+  optima: number,
+  mean: number,
+  scale: number,
+  shared: boolean,
+  team: ProductTeam | undefined,
+): SpectralResult[] {
+  const { eta } = options;
+  const pool = new LeanVectorPool(cost.dim, shared);
   if (cost.spare !== null) {
     pool.give(cost.spare);
     cost.spare = null;
@@ -54,6 +80,7 @@ export function spectralLeanScan(
       maxIterations: options.maxIterations ?? DEFAULT_SPECTRAL_OPTIONS.maxIterations,
       seed: options.seed ?? "spectral",
       pool,
+      team,
     });
     const psi = eig.psi0;
     let sum = 0;

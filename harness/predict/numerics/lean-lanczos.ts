@@ -17,6 +17,7 @@
 import { Rng } from "../../random.js";
 import { TridiagonalScratch, tridiagonalEigenvalue, tridiagonalEigenvector } from "../lanczos.js";
 import { applyOperator, type TransverseFieldOperator } from "./transverse-field.js";
+import { type ProductTeam, sharedFloat64 } from "./product-team.js";
 
 /** Vectors of the working dimension a solve holds at its peak. */
 export const LEAN_VECTORS = 6;
@@ -33,6 +34,8 @@ export interface LeanLanczosOptions {
   readonly maxRestarts?: number;
   /** Vectors kept between solves of one dimension (a scan over b or s); see {@link LeanVectorPool}. */
   readonly pool?: LeanVectorPool;
+  /** Threads for the products (product-team.ts); the pool and the operator's arrays must then be shared. */
+  readonly team?: ProductTeam;
 }
 
 /**
@@ -44,12 +47,13 @@ export class LeanVectorPool {
   private readonly free: Float64Array[] = [];
   /** Vectors allocated by this pool (donated ones not counted). */
   allocated = 0;
-  constructor(readonly dim: number) {}
+  /** @param shared - allocate in SharedArrayBuffers (for a {@link ProductTeam}). */
+  constructor(readonly dim: number, readonly shared = false) {}
   take(): Float64Array {
     const v = this.free.pop();
     if (v !== undefined) return v;
     this.allocated++;
-    return new Float64Array(this.dim);
+    return this.shared ? sharedFloat64(this.dim) : new Float64Array(this.dim);
   }
   give(v: Float64Array): void {
     if (v.length !== this.dim) throw new Error(`lean lanczos: vector of length ${v.length} given to a pool of ${this.dim}`);
@@ -104,6 +108,7 @@ export function leanLowestEigenpairs(op: TransverseFieldOperator, options: LeanL
     maxIterations,
     maxRestarts: options.maxRestarts ?? 12,
     products: 0,
+    team: options.team ?? null,
   };
   // 1. Random start vector, seeded.
   const rng = new Rng(options.seed);
@@ -151,6 +156,7 @@ const CAPACITY = 1;
 interface Context {
   readonly op: TransverseFieldOperator;
   readonly pool: LeanVectorPool;
+  readonly team: ProductTeam | null;
   /** α_j, β_j (β_0 = 0), σ_j = 1/β_j (σ_0 = 1): v_j = σ_j·u_j for the stored unnormalised u_j. */
   readonly alpha: Float64Array;
   readonly beta: Float64Array;
@@ -214,7 +220,8 @@ function converge(
     normalise(y);
     // 4. True residual with one product: θ = yᵀHy, r = ‖Hy − θy‖.
     const hy = pool.take();
-    applyOperator(op, y, 1, y, 0, hy);
+    if (ctx.team !== null) ctx.team.apply(op, y, 1, y, 0, hy);
+    else applyOperator(op, y, 1, y, 0, hy);
     ctx.products++;
     const energy = dot(y, hy);
     const residual = residualNorm(hy, y, energy);
@@ -251,7 +258,7 @@ function step(
 ): void {
   const sigma = ctx.sigma[j];
   const gamma = j > 0 ? ctx.beta[j] * ctx.sigma[j - 1] : 0;
-  const a = sigma * applyOperator(ctx.op, u, sigma, uprev, gamma, w);
+  const a = sigma * (ctx.team !== null ? ctx.team.apply(ctx.op, u, sigma, uprev, gamma, w) : applyOperator(ctx.op, u, sigma, uprev, gamma, w));
   ctx.products++;
   const as = a * sigma;
   const dim = w.length;

@@ -12,6 +12,7 @@ import { fillCostVector, walshHadamardInPlace } from "../../model/cost-vector.js
 import { hasFlipSymmetry } from "../../model/ising.js";
 import { type Problem, sizeOf } from "../../model/problem.js";
 import type { Diagonal } from "./transverse-field.js";
+import { sharedFloat64, sharedUint16, sharedUint8 } from "./product-team.js";
 
 /** Largest n the sector costs are built for (indices stay 31-bit integers). */
 export const SECTOR_COST_MAX_N = 30;
@@ -57,15 +58,16 @@ export function costBytesPerAmplitude(problem: Problem): number {
  * Builds the cost in its working space.
  * @throws Error when n exceeds {@link SECTOR_COST_MAX_N}.
  */
-export function buildSectorCost(problem: Problem): SectorCost {
+export function buildSectorCost(problem: Problem, shared = false): SectorCost {
+  const f64 = (length: number): Float64Array => (shared ? sharedFloat64(length) : new Float64Array(length));
   const n = sizeOf(problem);
   if (!(n >= 1 && n <= SECTOR_COST_MAX_N)) throw new Error(`sector cost: n = ${n} outside 1..${SECTOR_COST_MAX_N}`);
   if (problem.kind === "cnf") {
     const dim = 2 ** n;
-    const full = new Float64Array(dim);
+    const full = f64(dim);
     fillCostVector(problem, full);
     const clauses = problem.cnf.offsets.length - 1;
-    const levels = clauses > 255 ? new Uint16Array(dim) : new Uint8Array(dim);
+    const levels = clauses > 255 ? (shared ? sharedUint16(dim) : new Uint16Array(dim)) : shared ? sharedUint8(dim) : new Uint8Array(dim);
     let sum = 0;
     let min = Infinity;
     let max = 0;
@@ -83,7 +85,7 @@ export function buildSectorCost(problem: Problem): SectorCost {
   let bits = n;
   if (symmetric) {
     bits = n - 1;
-    values = new Float64Array(2 ** bits);
+    values = f64(2 ** bits);
     const model = problem.ising;
     const top = 1 << (n - 1);
     values[0] += model.constant;
@@ -94,7 +96,7 @@ export function buildSectorCost(problem: Problem): SectorCost {
     }
     walshHadamardInPlace(values, bits);
   } else {
-    values = new Float64Array(2 ** n);
+    values = f64(2 ** n);
     fillCostVector(problem, values);
   }
   // Neumaier-compensated mean, as spectral.ts.
@@ -145,7 +147,10 @@ export function optimalWeight(cost: SectorCost, psi: Float64Array, optimum: numb
  * otherwise. Update it with {@link setAffine}.
  */
 export function diagonalOf(cost: SectorCost): Diagonal {
-  if (cost.levels !== null) return { kind: "levels", levels: cost.levels, table: new Float64Array(cost.levelCount) };
+  if (cost.levels !== null) {
+    const shared = cost.levels.buffer instanceof SharedArrayBuffer;
+    return { kind: "levels", levels: cost.levels, table: shared ? sharedFloat64(cost.levelCount) : new Float64Array(cost.levelCount) };
+  }
   return { kind: "affine", costs: cost.values as Float64Array, scale: 0, shift: 0, cap: Infinity };
 }
 
@@ -158,4 +163,10 @@ export function setAffine(d: Diagonal, scale: number, shift: number, cap: number
     d.shift = shift;
     d.cap = cap;
   }
+}
+
+/** True when the cost's arrays live in SharedArrayBuffers (built with shared = true). */
+export function isShared(cost: SectorCost): boolean {
+  const a = cost.levels ?? cost.values;
+  return a !== null && a.buffer instanceof SharedArrayBuffer;
 }

@@ -83,11 +83,28 @@ export function applyOperator(
   w: Float64Array,
 ): number {
   if (op.dim < 8) return applySmall(op, v, sigma, vprev, gamma, w);
+  return applyOperatorRange(op, v, sigma, vprev, gamma, w, 0, op.dim);
+}
+
+/**
+ * {@link applyOperator} restricted to the output amplitudes [from, to) (multiples of 8, dim ≥ 8): writes only those
+ * of w and returns their part of wᵀv. Reads v anywhere, so threads may split the output range (product-team.ts).
+ */
+export function applyOperatorRange(
+  op: TransverseFieldOperator,
+  v: Float64Array,
+  sigma: number,
+  vprev: Float64Array,
+  gamma: number,
+  w: Float64Array,
+  from: number,
+  to: number,
+): number {
   const d = op.diagonal;
   const mirror = op.mirror ? op.dim - 1 : -1;
   return d.kind === "levels"
-    ? fusedLevels(op.dim, d.levels, d.table, -sigma * op.field, v, sigma, vprev, gamma, w, mirror)
-    : fusedAffine(op.dim, d.costs, d.scale, d.shift, d.cap, -sigma * op.field, v, sigma, vprev, gamma, w, mirror);
+    ? fusedLevels(op.dim, d.levels, d.table, -sigma * op.field, v, sigma, vprev, gamma, w, mirror, from, to)
+    : fusedAffine(op.dim, d.costs, d.scale, d.shift, d.cap, -sigma * op.field, v, sigma, vprev, gamma, w, mirror, from, to);
 }
 
 /** Σ_i v[z ^ bit_i] for eight amplitudes z … z+7 (all bits below dim, plus the mirror partner when mirror ≥ 0). */
@@ -155,9 +172,11 @@ function fusedLevels(
   gamma: number,
   w: Float64Array,
   mirror: number,
+  from: number,
+  to: number,
 ): number {
   let alpha = 0;
-  for (let z = 0; z < dim; z += 8) {
+  for (let z = from; z < to; z += 8) {
     groupFlips(v, z, dim, mirror);
     for (let k = 0; k < 8; k++) {
       const x = sigma * table[levels[z + k]] * v[z + k] + sx * flipSums[k] - gamma * vprev[z + k];
@@ -182,9 +201,11 @@ function fusedAffine(
   gamma: number,
   w: Float64Array,
   mirror: number,
+  from: number,
+  to: number,
 ): number {
   let alpha = 0;
-  for (let z = 0; z < dim; z += 8) {
+  for (let z = from; z < to; z += 8) {
     groupFlips(v, z, dim, mirror);
     for (let k = 0; k < 8; k++) {
       const y = scale * costs[z + k] + shift;

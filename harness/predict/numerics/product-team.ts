@@ -1,0 +1,144 @@
+/**
+ * Shared-memory threads for one large transverse-field product: the output range is split between the calling
+ * thread and helper worker threads, which read the same vectors in SharedArrayBuffers. A single large cell otherwise
+ * leaves the other cores idle. Synchronous by design (Atomics.wait/notify, messages received with
+ * receiveMessageOnPort), so the Lanczos code above it stays a plain loop.
+ *
+ * Every array the product reads or writes (vectors, cost levels or values, level table) must live in a
+ * SharedArrayBuffer: allocate with {@link sharedFloat64} and friends. Arrays are registered with the helpers on first
+ * use; their contents are read at each product, so a level table rewritten between solves is seen.
+ */
+import { MessageChannel, Worker } from "node:worker_threads";
+import { applyOperatorRange, type TransverseFieldOperator } from "./transverse-field.js";
+
+/** Smallest working dimension worth splitting (below it the hand-off costs more than it saves). */
+export const TEAM_MIN_DIM = 2 ** 16;
+
+/** Control block layout (Int32): [0] sequence, [1] done sequence per helper starting at index 8. */
+const SEQ = 0;
+const STOP = 1;
+const DONE = 8;
+/** Int32 slots of the command: ids and shape. */
+const ID_V = 2;
+const ID_PREV = 3;
+const ID_W = 4;
+const ID_DIAG = 5;
+const ID_TABLE = 6;
+const FLAGS = 7;
+/** Float64 slots: sigma, gamma, field, scale, shift, cap, dim, then one partial α per helper from 8. */
+const P_SIGMA = 0;
+const P_GAMMA = 1;
+const P_FIELD = 2;
+const P_SCALE = 3;
+const P_SHIFT = 4;
+const P_CAP = 5;
+const P_DIM = 6;
+const P_ALPHA = 8;
+
+/** A Float64Array in a SharedArrayBuffer. */
+export function sharedFloat64(length: number): Float64Array {
+  return new Float64Array(new SharedArrayBuffer(8 * length));
+}
+/** A Uint8Array in a SharedArrayBuffer. */
+export function sharedUint8(length: number): Uint8Array {
+  return new Uint8Array(new SharedArrayBuffer(length));
+}
+/** A Uint16Array in a SharedArrayBuffer. */
+export function sharedUint16(length: number): Uint16Array {
+  return new Uint16Array(new SharedArrayBuffer(2 * length));
+}
+
+type Shared = Float64Array | Uint8Array | Uint16Array;
+
+/** Helper threads applying their share of each product. Call {@link close} when done. */
+export class ProductTeam {
+  private readonly workers: Worker[] = [];
+  private readonly ctrl: Int32Array;
+  private readonly params: Float64Array;
+  private readonly ports: import("node:worker_threads").MessagePort[] = [];
+  private readonly ids = new WeakMap<SharedArrayBuffer, number>();
+  private nextId = 0;
+  private seq = 0;
+  /** Threads in all, the caller included. */
+  readonly threads: number;
+
+  constructor(threads: number) {
+    this.threads = Math.max(1, Math.floor(threads));
+    this.ctrl = new Int32Array(new SharedArrayBuffer(4 * (DONE + this.threads)));
+    this.params = new Float64Array(new SharedArrayBuffer(8 * (P_ALPHA + this.threads)));
+    // Each helper has its own channel, so each receives every registration.
+    for (let h = 1; h < this.threads; h++) {
+      const ch = new MessageChannel();
+      this.ports.push(ch.port1);
+      const worker = new Worker(new URL("./product-worker.js", import.meta.url), {
+        workerData: { ctrl: this.ctrl.buffer, params: this.params.buffer, port: ch.port2, index: h, threads: this.threads },
+        transferList: [ch.port2],
+      });
+      worker.unref();
+      this.workers.push(worker);
+    }
+  }
+
+  private idOf(a: Shared): number {
+    const buffer = a.buffer;
+    if (!(buffer instanceof SharedArrayBuffer)) throw new Error("product team: an array of the product is not in a SharedArrayBuffer");
+    let id = this.ids.get(buffer);
+    if (id === undefined) {
+      id = this.nextId++;
+      this.ids.set(buffer, id);
+      const kind = a instanceof Float64Array ? "f64" : a instanceof Uint8Array ? "u8" : "u16";
+      for (const p of this.ports) p.postMessage({ id, buffer, kind, offset: a.byteOffset, length: a.length });
+    }
+    return id;
+  }
+
+  /** w = σ·(H v) − γ·vprev over all amplitudes, split between the threads; returns wᵀv. */
+  apply(op: TransverseFieldOperator, v: Float64Array, sigma: number, vprev: Float64Array, gamma: number, w: Float64Array): number {
+    const dim = op.dim;
+    if (this.threads === 1 || dim < TEAM_MIN_DIM) return applyOperatorRange(op, v, sigma, vprev, gamma, w, 0, dim);
+    const { ctrl, params } = this;
+    const d = op.diagonal;
+    ctrl[ID_V] = this.idOf(v);
+    ctrl[ID_PREV] = this.idOf(vprev);
+    ctrl[ID_W] = this.idOf(w);
+    if (d.kind === "levels") {
+      ctrl[ID_DIAG] = this.idOf(d.levels);
+      ctrl[ID_TABLE] = this.idOf(d.table);
+    } else {
+      ctrl[ID_DIAG] = this.idOf(d.costs);
+      ctrl[ID_TABLE] = -1;
+      params[P_SCALE] = d.scale;
+      params[P_SHIFT] = d.shift;
+      params[P_CAP] = d.cap;
+    }
+    ctrl[FLAGS] = op.mirror ? 1 : 0;
+    params[P_SIGMA] = sigma;
+    params[P_GAMMA] = gamma;
+    params[P_FIELD] = op.field;
+    params[P_DIM] = dim;
+    const seq = ++this.seq;
+    Atomics.store(ctrl, SEQ, seq);
+    Atomics.notify(ctrl, SEQ);
+    const share = dim / this.threads; // dim ≥ 2^16 and threads ≤ 8 keep shares multiples of 8
+    let alpha = applyOperatorRange(op, v, sigma, vprev, gamma, w, 0, share);
+    for (let h = 1; h < this.threads; h++) {
+      for (;;) {
+        const done = Atomics.load(ctrl, DONE + h);
+        if (done === seq) break;
+        if (done < 0) throw new Error("product team: a helper thread failed");
+        Atomics.wait(ctrl, DONE + h, done, 60_000);
+      }
+      alpha += params[P_ALPHA + h];
+    }
+    return alpha;
+  }
+
+  /** Stops the helpers. */
+  close(): void {
+    Atomics.store(this.ctrl, STOP, 1);
+    Atomics.add(this.ctrl, SEQ, 1);
+    Atomics.notify(this.ctrl, SEQ);
+    for (const p of this.ports) p.close();
+    for (const w of this.workers) void w.terminate();
+  }
+}
