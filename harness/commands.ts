@@ -25,7 +25,7 @@ import { FAMILY_NAMES } from "./options.js";
 import { formatComparison } from "./report/paper.js";
 import { computeSpectral } from "./predict/spectral-cell.js";
 import { computeAdiabatic } from "./predict/adiabatic-cell.js";
-import { formatGiB, studyMemoryNeeded } from "./predict/numerics/memory.js";
+import { defaultSpectralMemory, formatGiB, studyMemoryNeeded } from "./predict/numerics/memory.js";
 import { costModelRows } from "./predict/cost-table.js";
 import { mergeShards, writeMerged } from "./merge.js";
 import { DEFAULT_SPEED_TOLERANCE, compareFolders } from "./compare.js";
@@ -55,9 +55,10 @@ export async function run(argv: Args, rawArgs: ReadonlyArray<string>): Promise<n
   const cellLimitMs = argv["cell-limit"] === undefined ? null : parseDuration(String(argv["cell-limit"]), "--cell-limit");
   const started = new Date();
   const quantum = spec.predictors.filter((p) => p === "spectral" || p === "adiabatic");
-  if (quantum.length > 0 && spec.sizes.length > 0 && spec.spectral.memory !== undefined) {
+  if (quantum.length > 0 && spec.sizes.length > 0) {
     const n = Math.max(...spec.sizes);
-    process.stderr.write(`speedbound: the largest ${quantum.join("/")} cell (n = ${n}) needs ${formatGiB(studyMemoryNeeded(spec.family, spec.familyParams, n))} of the ${formatGiB(spec.spectral.memory)} allowed (--spectral-memory)\n`);
+    const allowed = spec.spectral.memory ?? defaultSpectralMemory();
+    process.stderr.write(`speedbound: the largest ${quantum.join("/")} cell (n = ${n}) needs ${formatGiB(studyMemoryNeeded(spec.family, spec.familyParams, n))} of the ${formatGiB(allowed)} allowed (--spectral-memory)\n`);
   }
   const summary = await runStudy(spec, { out, workers, budgetMs, cellLimitMs, shard, progress: consoleProgress(), graceMs: 10_000 });
   if (summary.tornJournalLine) process.stderr.write(`speedbound: warning: the journal's last line was torn (a killed run) and was dropped\n`);

@@ -225,8 +225,10 @@ export function resolveStudy(argv: Argv): StudySpec {
     schedule,
     beta,
     predictors,
-    spectral: { bValues, eta: numberOption(argv, "eta") as number, memory: spectralMemory },
-    adiabatic: { grid: numberOption(argv, "adiabatic-grid") as number },
+    // The allowance joins the study's identity only when given: the default depends on the machine, and shards of
+    // one study may run on nodes of different sizes (each then applies its own default).
+    spectral: { bValues, eta: numberOption(argv, "eta") as number, ...(argv["spectral-memory"] !== undefined ? { memory: spectralMemory } : {}) },
+    ...(predictors.includes("adiabatic") ? { adiabatic: { grid: numberOption(argv, "adiabatic-grid") as number } } : {}),
     costModel: resolveCostModel(argv),
     report: { fitFrom: optionalNumber(argv, "fit-from"), resamples: numberOption(argv, "resamples") as number },
   };

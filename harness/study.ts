@@ -28,9 +28,10 @@ export interface StudySpec {
   /** Anneal inverse-temperature range, or null for the instance-derived default. */
   readonly beta: readonly [number, number] | null;
   readonly predictors: ReadonlyArray<string>;
-  /** memory: bytes one spectral or adiabatic cell may use (--spectral-memory); absent in older spec.json files. */
+  /** memory: bytes one spectral or adiabatic cell may use (--spectral-memory); absent when not given (each machine
+   * then allows 75% of its physical memory). */
   readonly spectral: { readonly bValues: ReadonlyArray<number>; readonly eta: number; readonly memory?: number };
-  /** adiabatic: grid points in [0, 1] (--adiabatic-grid); absent in older spec.json files. */
+  /** adiabatic: grid points in [0, 1] (--adiabatic-grid); present only when the adiabatic predictor is asked for. */
   readonly adiabatic?: { readonly grid: number };
   readonly costModel: {
     readonly toffoliSeconds: number;
