@@ -182,13 +182,14 @@ export async function runStudy(spec: StudySpec, options: RunOptions): Promise<Ru
         );
         const merged = mergeExact(answers.map((a) => a.result), costTolerance(problem));
         const wall = answers.reduce((s, a) => s + a.wall_ns, 0);
+        const floor = answers.every((a) => a.floor_ns !== null) ? answers.reduce((s, a) => s + (a.floor_ns ?? 0), 0) : null;
         const status = merged.complete ? "ok" : "censored";
         return {
           ...base, status, wall_ns: wall, message: status === "ok" ? "" : "stopped by a time limit",
           seed: answers[0].seed, meta: answers[0].meta,
           optimum: merged.complete ? merged.optimum : null,
           degeneracy: merged.complete ? merged.degeneracy : null,
-          assignments: merged.assignments, mean: answers[0].mean,
+          assignments: merged.assignments, evaluated: merged.evaluated, floor_ns: floor, mean: answers[0].mean,
         };
       } catch (e) {
         return { ...base, status: "error", wall_ns: 0, message: messageOf(e), seed: "", meta: {}, optimum: null, degeneracy: null, assignments: 0, mean: null };
@@ -217,7 +218,7 @@ export async function runStudy(spec: StudySpec, options: RunOptions): Promise<Ru
           const r = a.result;
           return rec({
             status: r.censored ? "censored" : "ok", wall_ns: a.wall_ns, trials: r.trials, successes: r.successes, work: r.work,
-            best: Number.isFinite(r.best) ? r.best : null, beta_start: a.beta_start, beta_end: a.beta_end,
+            best: Number.isFinite(r.best) ? r.best : null, beta_start: a.beta_start, beta_end: a.beta_end, floor_ns: a.floor_ns,
             message: r.censored ? `stopped by a time limit after ${r.trials} trials` : "",
           });
         } catch (e) {

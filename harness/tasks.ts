@@ -46,6 +46,8 @@ export type Task = TruthSliceTask | TrialsTask | SpectralTask;
 export interface TruthSliceAnswer {
   readonly result: ExactResult;
   readonly wall_ns: number;
+  /** Fixed cost of the call: the same kernel on a one-configuration slice, timed after the real call; null if it failed. */
+  readonly floor_ns: number | null;
   readonly meta: Readonly<Record<string, number | string | boolean>>;
   readonly seed: string;
   /** Exact mean cost over all configurations (spectral normalisation, reports). */
@@ -56,6 +58,8 @@ export interface TruthSliceAnswer {
 export interface TrialsAnswer {
   readonly result: TrialsResult;
   readonly wall_ns: number;
+  /** Fixed cost of the cell: the same solver call with zero trials, timed after the real call. */
+  readonly floor_ns: number | null;
   /** Anneal: the inverse-temperature range used and the rule that chose it. */
   readonly beta_start: number | null;
   readonly beta_end: number | null;

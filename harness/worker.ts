@@ -4,7 +4,7 @@
  */
 import { materialise, type InstanceContext } from "./families/registry.js";
 import type { GeneratedInstance } from "./families/types.js";
-import { costTolerance, meanCost } from "./model/problem.js";
+import { costTolerance, meanCost, sizeOf } from "./model/problem.js";
 import type { SpectralAnswer, Task, TrialsAnswer, TruthSliceAnswer } from "./tasks.js";
 import { exhaustiveSlice } from "../solvers/exhaustive.js";
 import { walkTrials } from "../solvers/walk.js";
@@ -29,6 +29,20 @@ function elapsed(start: bigint): number {
   return Number(process.hrtime.bigint() - start);
 }
 
+/**
+ * The fixed cost of a cell (issue 13, the fixed-cost floor): the same call with zero-length work, timed after the
+ * real call so it runs warm (compiled, instance cached). Null when the zero-length call is not accepted.
+ */
+function floorOf(call: () => unknown): number | null {
+  try {
+    const start = process.hrtime.bigint();
+    call();
+    return elapsed(start);
+  } catch {
+    return null;
+  }
+}
+
 /** Piscina calls the default export once per task. */
 export default function handle(task: Task): TruthSliceAnswer | TrialsAnswer | SpectralAnswer {
   // Tell the run loop that computing starts now: cell limits count from here, not from the queue.
@@ -38,16 +52,23 @@ export default function handle(task: Task): TruthSliceAnswer | TrialsAnswer | Sp
       const inst = instanceFor(task.ctx);
       const start = process.hrtime.bigint();
       const result = exhaustiveSlice(inst.problem, task.slice, task.stop);
-      return { result, wall_ns: elapsed(start), meta: inst.meta, seed: inst.seed, mean: meanCost(inst.problem) };
+      const wall_ns = elapsed(start);
+      // Zero-length run: every variable fixed (one configuration), so only set-up and one evaluation remain.
+      const n = sizeOf(inst.problem);
+      const floor_ns = floorOf(() => exhaustiveSlice(inst.problem, { prefixBits: n, prefix: 0, mirror: task.slice.mirror }, null));
+      return { result, wall_ns, floor_ns, meta: inst.meta, seed: inst.seed, mean: meanCost(inst.problem) };
     }
     case "trials": {
       injectFault(task.ctx);
       const inst = instanceFor(task.ctx);
       if (task.solver === "walk") {
         if (inst.problem.kind !== "cnf") throw new Error("walk applies to CNF instances only");
+        const cnf = inst.problem.cnf;
         const start = process.hrtime.bigint();
-        const result = walkTrials(inst.problem.cnf, { trials: task.trials, maxFlips: task.runLength, seed: task.seed, stop: task.stop, firstTrial: 0 });
-        return { result, wall_ns: elapsed(start), beta_start: null, beta_end: null };
+        const result = walkTrials(cnf, { trials: task.trials, maxFlips: task.runLength, seed: task.seed, stop: task.stop, firstTrial: 0 });
+        const wall_ns = elapsed(start);
+        const floor_ns = floorOf(() => walkTrials(cnf, { trials: 0, maxFlips: task.runLength, seed: task.seed, stop: null, firstTrial: 0 }));
+        return { result, wall_ns, floor_ns, beta_start: null, beta_end: null };
       }
       const range = task.beta ?? (() => {
         const r = defaultBetaRange(inst.problem);
@@ -55,7 +76,7 @@ export default function handle(task: Task): TruthSliceAnswer | TrialsAnswer | Sp
       })();
       const tolerance = costTolerance(inst.problem);
       const start = process.hrtime.bigint();
-      const result = annealTrials(inst.problem, {
+      const options = {
         trials: task.trials,
         sweeps: task.runLength,
         betaStart: range[0],
@@ -66,8 +87,11 @@ export default function handle(task: Task): TruthSliceAnswer | TrialsAnswer | Sp
         seed: task.seed,
         stop: task.stop,
         firstTrial: 0,
-      });
-      return { result, wall_ns: elapsed(start), beta_start: range[0], beta_end: range[1] };
+      };
+      const result = annealTrials(inst.problem, options);
+      const wall_ns = elapsed(start);
+      const floor_ns = floorOf(() => annealTrials(inst.problem, { ...options, trials: 0, stop: null }));
+      return { result, wall_ns, floor_ns, beta_start: range[0], beta_end: range[1] };
     }
     case "spectral": {
       const inst = instanceFor(task.ctx);

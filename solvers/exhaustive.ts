@@ -64,11 +64,13 @@ export function mergeExact(results: ReadonlyArray<ExactResult>, tolerance: numbe
   for (const r of results) if (r.optimum < optimum) optimum = r.optimum;
   let degeneracy = 0;
   let assignments = 0;
+  let evaluated = 0;
   let complete = true;
   for (const r of results) {
     if (r.degeneracy > 0 && Math.abs(r.optimum - optimum) <= tolerance) degeneracy += r.degeneracy;
     assignments += r.assignments;
+    evaluated += r.evaluated;
     complete &&= r.complete;
   }
-  return { optimum, degeneracy, assignments, complete };
+  return { optimum, degeneracy, assignments, evaluated, complete };
 }

@@ -23,6 +23,11 @@ export interface ExactResult {
   readonly degeneracy: number;
   /** Configurations covered (2^n for a complete run, mirrors counted). */
   readonly assignments: number;
+  /**
+   * Configurations actually evaluated (the work really done): lanes of evaluated blocks summed over passes for
+   * the pruning CNF kernel, visited configurations for the spin kernel (a mirror pair counts once).
+   */
+  readonly evaluated: number;
   /** False when the stop flag cut the enumeration short. */
   readonly complete: boolean;
 }
