@@ -67,8 +67,8 @@ async function main(): Promise<number> {
     .command(
       "report <dir>",
       "rebuild every table, fit and plot of an output folder from its journal",
-      (y) => withOptions(y.positional("dir", { type: "string" }), ["report"]),
-      async (a) => set(await commands.report(a)),
+      (y) => withOptions(y.positional("dir", { type: "string" }), ["report", "cost model"]),
+      async (a) => set(await commands.report(a, args)),
     )
     .command(
       "spectral <file>",

@@ -7,7 +7,9 @@ import { fileURLToPath } from "node:url";
 import { join, resolve } from "node:path";
 import { EXIT, InputError } from "./errors.js";
 import { OUT_FILES, runStudy, type RunSummary } from "./run.js";
-import { numberOption, parseDuration, parseShard, readStudyFolder, resolveFamilyParams, resolveStudy, parseSizeRange } from "./resolve.js";
+import { numberOption, parseDuration, parseShard, readStudyFolder, resolveCostModel, resolveFamilyParams, resolveStudy, parseSizeRange } from "./resolve.js";
+import type { StudySpec } from "./study.js";
+import { DEFAULT_FLOOR_FACTOR } from "./stats/floor.js";
 import { consoleProgress } from "./progress.js";
 import { writeOutputs } from "./report/outputs.js";
 import { buildManifest } from "./manifest.js";
@@ -47,7 +49,16 @@ export async function run(argv: Args, rawArgs: ReadonlyArray<string>): Promise<n
   const summary = await runStudy(spec, { out, workers, budgetMs, cellLimitMs, shard, progress: consoleProgress(), graceMs: 10_000 });
   if (summary.tornJournalLine) process.stderr.write(`speedbound: warning: the journal's last line was torn (a killed run) and was dropped\n`);
   const { paper } = await writeOutputs(spec, out);
-  writeFileAtomic(join(out, OUT_FILES.manifest), JSON.stringify(buildManifest({ argv: rawArgs, spec, workers, shard, started, ended: new Date(), summary }), null, 2) + "\n");
+  // A resume keeps the first start time and adds its own to `resumed_at`.
+  const previous = readPreviousManifest(join(out, OUT_FILES.manifest));
+  const firstStart = summary.cellsResumed > 0 && typeof previous?.started_at === "string" ? new Date(previous.started_at) : started;
+  const resumedAt = summary.cellsResumed > 0
+    ? [...(Array.isArray(previous?.resumed_at) ? (previous!.resumed_at as string[]) : []), started.toISOString()]
+    : [];
+  writeFileAtomic(
+    join(out, OUT_FILES.manifest),
+    JSON.stringify(buildManifest({ argv: rawArgs, spec, workers, shard, started: firstStart, ended: new Date(), summary, extra: { resumed_at: resumedAt, report_settings: { settings: paper.settings ?? "" } } }), null, 2) + "\n",
+  );
   process.stdout.write(formatComparison(paper) + "\n");
   process.stdout.write(summaryLine(summary, out) + "\n");
   if (summary.interrupted === "SIGINT") return EXIT.interrupted;
@@ -144,13 +155,28 @@ export async function instance(argv: Args): Promise<number> {
   return EXIT.ok;
 }
 
-/** `speedbound report DIR`: rebuild tables from the journal (optionally with other fit settings). */
-export async function report(argv: Args): Promise<number> {
+/**
+ * `speedbound report DIR`: rebuild tables from the journal, optionally with other report settings (fit range,
+ * resamples, floor factor) and cost-model options; only options given on the command line override the study's.
+ * The settings used are recorded in manifest.json (`report_settings`, and a `reports` history).
+ */
+export async function report(argv: Args, rawArgs: ReadonlyArray<string> = []): Promise<number> {
   const dir = resolve(String(argv.dir));
   const { spec } = readStudyFolder(dir);
+  const given = (name: string): boolean => rawArgs.some((a) => a === `--${name}` || a.startsWith(`--${name}=`));
   const fitFrom = argv["fit-from"] === undefined ? spec.report.fitFrom : numberOption(argv, "fit-from");
-  const resamples = argv.resamples === undefined ? spec.report.resamples : (numberOption(argv, "resamples") as number);
-  const { paper } = await writeOutputs({ ...spec, report: { fitFrom, resamples } }, dir);
+  const resamples = given("resamples") ? (numberOption(argv, "resamples") as number) : spec.report.resamples;
+  const floorFactor = given("floor-factor") ? (numberOption(argv, "floor-factor") as number) : (spec.report.floorFactor ?? DEFAULT_FLOOR_FACTOR);
+  const fromArgs = resolveCostModel(argv);
+  const costModel = { ...spec.costModel };
+  const costNames: Record<string, keyof StudySpec["costModel"]> = {
+    "toffoli-us": "toffoliSeconds", factories: "factories", "classical-parallelism": "classicalParallelism",
+    "oracle-toffolis": "oracleToffolis", "walk-step-toffolis": "walkStepToffolis", "anneal-step-toffolis": "annealStepToffolis",
+  };
+  for (const [option, key] of Object.entries(costNames)) if (given(option)) (costModel as Record<string, unknown>)[key] = fromArgs[key];
+  const reportSpec: StudySpec = { ...spec, costModel, report: { fitFrom, resamples, floorFactor } };
+  const { paper } = await writeOutputs(reportSpec, dir);
+  recordReportSettings(dir, rawArgs, reportSpec, paper.settings ?? "");
   process.stdout.write(formatComparison(paper) + "\n");
   process.stdout.write(`speedbound: tables rebuilt in ${dir}\n`);
   return EXIT.ok;
@@ -264,4 +290,36 @@ function stripOptions(args: ReadonlyArray<string>, names: ReadonlyArray<string>)
     out.push(args[i]);
   }
   return out;
+}
+
+/** Adds the settings of a `report` rebuild to manifest.json (latest in `report_settings`, all in `reports`). */
+function recordReportSettings(dir: string, rawArgs: ReadonlyArray<string>, spec: StudySpec, line: string): void {
+  const path = join(dir, OUT_FILES.manifest);
+  let manifest: Record<string, unknown> = {};
+  try {
+    manifest = JSON.parse(readFileSync(path, "utf8")) as Record<string, unknown>;
+  } catch {
+    manifest = {};
+  }
+  const entry = {
+    at: new Date().toISOString(),
+    command_line: ["speedbound", ...rawArgs].join(" "),
+    fit_from: spec.report.fitFrom,
+    resamples: spec.report.resamples,
+    floor_factor: spec.report.floorFactor,
+    cost_model: spec.costModel,
+    settings: line,
+  };
+  manifest.report_settings = entry;
+  manifest.reports = [...(Array.isArray(manifest.reports) ? manifest.reports : []), entry];
+  writeFileAtomic(path, JSON.stringify(manifest, null, 2) + "\n");
+}
+
+/** The manifest of an earlier run in the same folder, or null. */
+function readPreviousManifest(path: string): Record<string, unknown> | null {
+  try {
+    return JSON.parse(readFileSync(path, "utf8")) as Record<string, unknown>;
+  } catch {
+    return null;
+  }
 }

@@ -8,7 +8,7 @@ import { InputError } from "./errors.js";
 import { readJournal, type TruthRecord } from "./journal.js";
 import { readStudyFolder } from "./resolve.js";
 import { buildTables } from "./report/tables.js";
-import { fitScaling, type FitRow } from "./report/summarise.js";
+import { fitStudy, type FitRow } from "./report/fits.js";
 import { REPORT_BOOTSTRAP_SEED } from "./report/paper.js";
 import type { RunRow } from "./types.js";
 import { quantileOf } from "./stats/quantiles.js";
@@ -53,7 +53,7 @@ export function compareFolders(oldDir: string, newDir: string, tolerance: number
   // 2. Exponents of the median fits, per method and measure.
   const fitsOf = (records: typeof oldRecords): FitRow[] => {
     const t = buildTables(a.spec, records);
-    return fitScaling(t.runs, t.predictions, { resamples: a.spec.report.resamples, seed: REPORT_BOOTSTRAP_SEED, fitFrom: a.spec.report.fitFrom, quantiles: [0.5] });
+    return fitStudy(t.runs, t.predictions, { resamples: a.spec.report.resamples, seed: REPORT_BOOTSTRAP_SEED, fitFrom: a.spec.report.fitFrom, floorFactor: a.spec.report.floorFactor, quantiles: [0.5] });
   };
   const oldFits = new Map(fitsOf(oldRecords).map((f) => [`${f.method}|${f.measure}`, f]));
   for (const f of fitsOf(newRecords)) {

@@ -69,4 +69,5 @@ export const STUDY_OPTIONS: ReadonlyArray<OptionSpec> = [
   { name: "shard", type: "string", group: "run", description: "run only slice K/N of the cells (1-based K)" },
   { name: "fit-from", type: "integer", group: "report", min: 1, description: "smallest n used in scaling fits (default: drop the smallest third of the sizes)" },
   { name: "resamples", type: "integer", group: "report", default: 2000, min: 100, max: 1e6, description: "bootstrap resamples for quantile and exponent intervals" },
+  { name: "floor-factor", type: "number", group: "report", default: 10, min: 1, description: "time fits use only sizes whose median cell time is at least this many times the solver's fixed per-cell cost" },
 ];

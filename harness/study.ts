@@ -37,7 +37,8 @@ export interface StudySpec {
     readonly walkStepToffolis: number | null;
     readonly annealStepToffolis: number | null;
   };
-  readonly report: { readonly fitFrom: number | null; readonly resamples: number };
+  /** Report settings; floorFactor is absent in spec.json files written before it existed (default 10). */
+  readonly report: { readonly fitFrom: number | null; readonly resamples: number; readonly floorFactor?: number };
 }
 
 /** One instance of the study: what a worker needs to regenerate it. */
