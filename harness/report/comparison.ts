@@ -292,7 +292,7 @@ function compareRow(x: RowInput): ComparisonRow {
   const range = (f: FitRow): string => `n = ${f.n_from}…${f.n_to}`;
   if (cf === null) label = `undetermined (no ${CLASSICAL_MEASURES[x.basis].join(" or ")} for ${x.solver})`;
   else if (cf.exponent === null && cf.flag.includes("not enough sizes above the fixed-cost floor")) {
-    label = cf.flag.split("; ").find((s) => s.startsWith("not enough sizes above the fixed-cost floor"))!;
+    label = /not enough sizes above the fixed-cost floor \([^)]*\)/.exec(cf.flag)?.[0] ?? "not enough sizes above the fixed-cost floor";
   } else if (cf.exponent === null) label = `undetermined (no fit of ${cf.measure} for ${x.solver})`;
   else if (qf === null || qExp === null) label = `undetermined (no fit of ${x.qMeasure} for ${x.predictor})`;
   else if (!x.rated) {

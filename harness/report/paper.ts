@@ -51,7 +51,7 @@ export function settingsLine(spec: StudySpec): string {
     c.annealStepToffolis === null ? "" : `${c.annealStepToffolis} Toffolis per anneal step`,
   ].filter((s) => s !== "");
   return [
-    `fit sizes ${r.fitFrom === null ? DEFAULT_FIT_FROM_RULE : `n >= ${r.fitFrom}`}`,
+    `fit ${r.fitFrom === null ? DEFAULT_FIT_FROM_RULE : `sizes n >= ${r.fitFrom}`}`,
     `${r.resamples} bootstrap resamples`,
     `fixed-cost floor factor ${r.floorFactor}`,
     `cost model: Toffoli time ${+(c.toffoliSeconds * 1e6).toPrecision(6)} us, ${c.factories} factor${c.factories === 1 ? "y" : "ies"}, classical parallelism S = ${c.classicalParallelism}` +

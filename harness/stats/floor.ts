@@ -78,11 +78,11 @@ export function applyFloor(points: ReadonlyArray<FloorPoint>, factor: number = D
     else excluded.push({ n: p.n, medianWall: p.medianWall, floor: p.floor });
   }
   const tooFew = kept.length < MIN_SIZES_ABOVE_FLOOR;
-  const neededFrom = tooFew ? extrapolateNeeded(ratios, Math.log2(factor), kept) : null;
+  const neededFrom = tooFew ? extrapolateNeeded(ratios, Math.log2(factor)) : null;
   const flags: string[] = [];
   if (tooFew) {
     flags.push(
-      `not enough sizes above the fixed-cost floor (n >= ${neededFrom === null ? "?" : neededFrom} needed; ` +
+      `not enough sizes above the fixed-cost floor (${neededFrom === null ? "n beyond the measured range needed: time barely grows above the floor" : `n >= ${neededFrom} needed`}, ` +
         `${kept.length} of ${MIN_SIZES_ABOVE_FLOOR} sizes at ${factor} x floor)`,
     );
   } else if (excluded.length > 0) {
@@ -94,10 +94,12 @@ export function applyFloor(points: ReadonlyArray<FloorPoint>, factor: number = D
 
 /**
  * The smallest n at which the median wall time reaches factor × floor: where the least-squares line through
- * (n, log₂ median/floor) reaches log₂ factor (rounded up), or the smallest size already passing if smaller.
+ * (n, log₂ median/floor) reaches log₂ factor, rounded up; null when that ratio does not grow with n (then no
+ * size would do) or fewer than 2 sizes have both numbers. A single noisy size above the floor (a cold first
+ * cell) does not count: the trend decides.
  */
-function extrapolateNeeded(ratios: ReadonlyArray<readonly [number, number]>, target: number, kept: ReadonlyArray<number>): number | null {
-  if (ratios.length < 2) return kept.length > 0 ? kept[0]! : null;
+function extrapolateNeeded(ratios: ReadonlyArray<readonly [number, number]>, target: number): number | null {
+  if (ratios.length < 2) return null;
   const m = ratios.length;
   const mx = ratios.reduce((s, r) => s + r[0], 0) / m;
   const my = ratios.reduce((s, r) => s + r[1], 0) / m;
@@ -108,7 +110,7 @@ function extrapolateNeeded(ratios: ReadonlyArray<readonly [number, number]>, tar
     sxx += (x - mx) ** 2;
   }
   const slope = sxx > 0 ? sxy / sxx : 0;
-  if (!(slope > 0)) return kept.length > 0 ? kept[0]! : null;
-  const n0 = Math.ceil(mx + (target - my) / slope);
-  return kept.length > 0 ? Math.min(n0, kept[0]!) : n0;
+  // Less than a doubling of the ratio over 100 sizes: "growth" indistinguishable from none.
+  if (!(slope > 0.01)) return null;
+  return Math.ceil(mx + (target - my) / slope);
 }

@@ -104,19 +104,28 @@ function scalingSpec(args: {
   extra?: unknown[];
 }): unknown {
   const sc = scales(args.series);
+  const fitted = new Set(args.lines.map((l) => String(l["fit"])));
   const legend = { orient: "right", labelFontSize: 12, titleFontSize: 12, labelLimit: 400, titleLimit: 400, symbolStrokeWidth: 2 };
   const x = { field: "n", type: "quantitative", title: args.nTitle, scale: { zero: false, nice: false, padding: 12 }, axis: { format: "d", tickMinStep: 1 } };
-  const colour = { field: "series", type: "nominal", scale: { domain: sc.domain, range: sc.colours }, legend: { ...legend, title: "method (measure); filled: median, open: censored, at least" } };
-  const shape = { field: "series", type: "nominal", scale: { domain: sc.domain, range: sc.shapes }, legend: { ...legend, title: "method (measure); filled: median, open: censored, at least" } };
+  const colour = { field: "series", type: "nominal", scale: { domain: sc.domain, range: sc.colours }, legend: { ...legend, title: "median (filled), censored (open)", symbolSize: 90 } };
+  const shape = { field: "series", type: "nominal", scale: { domain: sc.domain, range: sc.shapes }, legend: { ...legend, title: "median (filled), censored (open)", symbolSize: 90 } };
+  // A field of its own keeps the dash legend apart from the merged colour-and-shape legend; its symbols take the
+  // series colour through the shared colour scale (vega's compiled name "color").
   const dash = {
-    field: "series",
+    field: "fit",
     type: "nominal",
-    scale: { domain: sc.domain, range: sc.dashes },
-    legend: { ...legend, title: "fitted line (sizes used)", symbolType: "stroke", symbolSize: 600 },
+    scale: { domain: sc.domain.filter((d) => fitted.has(d)), range: sc.dashes.filter((_, i) => fitted.has(sc.domain[i]!)) },
+    legend: {
+      ...legend,
+      title: "fitted line",
+      symbolType: "stroke",
+      symbolSize: 600,
+      encode: { symbols: { update: { stroke: { scale: "color", field: "value" }, strokeWidth: { value: 2 } } } },
+    },
   };
   return {
     $schema: "https://vega.github.io/schema/vega-lite/v6.json",
-    title: { text: args.title, subtitle: args.caption, fontSize: 15, subtitleFontSize: 11, anchor: "start" },
+    title: { text: args.title, subtitle: args.caption.flatMap((c) => wrap(c, 120)), fontSize: 15, subtitleFontSize: 11, anchor: "start" },
     width: 560,
     height: 380,
     background: "white",
@@ -167,7 +176,7 @@ export async function workFigureSvg(sizes: ReadonlyArray<SizeRow>, fits: Readonl
   for (const s of series) {
     const f = fits.find((x) => x.family === ctx.family && x.method === s.method && x.method_kind === s.kind && x.measure === s.measure && x.quantile === 0.5);
     if (f === undefined || f.exponent === null || f.intercept === null || f.n_from === null || f.n_to === null) continue;
-    for (const n of [f.n_from, f.n_to]) lines.push({ series: s.label, segment: `${s.label} fit`, n, y: f.exponent * n + f.intercept, opacity: 1 });
+    for (const n of [f.n_from, f.n_to]) lines.push({ series: s.label, fit: s.label, segment: `${s.label} fit`, n, y: f.exponent * n + f.intercept, opacity: 1 });
   }
   return renderSvg(
     scalingSpec({
@@ -214,7 +223,7 @@ export async function timeFigureSvg(
     const segment = (from: number, to: number, name: string, opacity: number): void => {
       for (let i = 0; i <= steps; i++) {
         const n = from + ((to - from) * i) / steps;
-        lines.push({ series: s.label, segment: `${s.label} ${name}`, n, y: yAt(n), opacity });
+        lines.push({ series: s.label, fit: s.label, segment: `${s.label} ${name}`, n, y: yAt(n), opacity });
       }
     };
     segment(f.n_from, f.n_to, "fit", 1);
