@@ -80,7 +80,7 @@ export function comparisonLatex(rows: ReadonlyArray<ComparisonRow>, settings: st
     "\\bottomrule",
     ...(notes.length === 0
       ? []
-      : [`\\multicolumn{${ALIGN.length}}{l}{\\footnotesize ${notes.map((l) => `$^{\\mathrm{${l.slice(0, 1)}}}$${escapeLatex(l.slice(2))}`).join("; ")}} \\\\`]),
+      : [`\\multicolumn{${ALIGN.length}}{l}{\\footnotesize ${notes.map((l) => `$^{\\mathrm{${l.slice(0, 1)}}}$${escapeLatex(l.slice(3))}`).join("; ")}} \\\\`]),
     "\\end{tabular}",
   ].join("\n") + "\n";
 }
