@@ -15,6 +15,7 @@ export interface MethodStyle {
 
 const SALTIRE = "M-1,-1L1,1M-1,1L1,-1";
 const HEXAGON = "M0,-1L0.866,-0.5L0.866,0.5L0,1L-0.866,0.5L-0.866,-0.5Z";
+const STAR = "M0,-1L0.29,-0.4L0.95,-0.31L0.47,0.15L0.59,0.81L0,0.5L-0.59,0.81L-0.47,0.15L-0.95,-0.31L-0.29,-0.4Z";
 
 /** Fixed styles of the methods the tool knows (solvers first, then predictors). */
 export const METHOD_STYLES: Readonly<Record<string, MethodStyle>> = {
@@ -27,7 +28,7 @@ export const METHOD_STYLES: Readonly<Record<string, MethodStyle>> = {
   grover: { colour: "#6A3D9A", shape: "circle", dash: [1, 0] },
   "grover-unknown": { colour: "#56B4E9", shape: "square", dash: [6, 6] },
   "min-finding": { colour: "#E69F00", shape: SALTIRE, dash: [10, 3, 2, 3, 2, 3] },
-  "amplified-walk": { colour: "#0072B2", shape: HEXAGON, dash: [2, 6] },
+  "amplified-walk": { colour: "#0072B2", shape: STAR, dash: [2, 6] },
   "amplified-anneal": { colour: "#D55E00", shape: "triangle-right", dash: [16, 3, 4, 3] },
   "amplified-breakwalk": { colour: "#009E73", shape: "triangle-left", dash: [3, 3] },
   "amplified-tempering": { colour: "#CC79A7", shape: HEXAGON, dash: [12, 2] },
