@@ -286,13 +286,15 @@ export async function instancesFigureSvg(tables: Tables, sizes: ReadonlyArray<Si
     const predictors = [...new Set(tables.predictions.filter((p) => p.n === n && p.family === ctx.family).map((p) => p.predictor))].sort();
     const labels: string[] = [];
     for (const predictor of predictors) {
+      // Predictors with run lengths (amplified solvers, the spectral b): the size's optimal one only.
+      const chosen = sizes.find((r) => r.method_kind === "predictor" && r.method === predictor && r.n === n && r.optimal_run_length && r.run_length !== null);
       const xs: number[] = [];
       const ys: number[] = [];
       const pts: Datum[] = [];
       for (const p of tables.predictions) {
         if (p.predictor !== predictor || p.n !== n || p.status !== "ok" || p.queries === null || !(p.queries > 0)) continue;
         if (predictor === "spectral" && p.b_best === false) continue;
-        if (predictor.startsWith("amplified-") && p.run_length !== solverRow.run_length && predictor !== `amplified-${solverRow.method}`) continue;
+        if (chosen !== undefined && predictor.startsWith("amplified-") && p.run_length !== chosen.run_length) continue;
         const c = classical.get(p.instance);
         if (c === undefined) continue;
         const q = p.queries * ctx.secondsPerQuery(ctx.family, predictor, n);

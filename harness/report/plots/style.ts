@@ -13,7 +13,8 @@ export interface MethodStyle {
   readonly dash: ReadonlyArray<number>;
 }
 
-const SALTIRE = "M-1,-1L1,1M-1,1L1,-1";
+// A filled ×: filled point marks draw no stroke, so a shape made of lines only would vanish.
+const SALTIRE = "M-0.569,-1.057L0.000,-0.488L0.569,-1.057L1.057,-0.569L0.488,0.000L1.057,0.569L0.569,1.057L0.000,0.488L-0.569,1.057L-1.057,0.569L-0.488,0.000L-1.057,-0.569Z";
 const HEXAGON = "M0,-1L0.866,-0.5L0.866,0.5L0,1L-0.866,0.5L-0.866,-0.5Z";
 const STAR = "M0,-1L0.29,-0.4L0.95,-0.31L0.47,0.15L0.59,0.81L0,0.5L-0.59,0.81L-0.47,0.15L-0.95,-0.31L-0.29,-0.4Z";
 
