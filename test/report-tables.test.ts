@@ -88,6 +88,10 @@ describe("fits and comparison", () => {
     // Generated exponent at the optimal run length: 0.3 (by construction); the 1000-sweep run alone would give 0.2.
     expect(Math.abs(anneal.exponent! - 0.3)).toBeLessThan(0.02);
     expect(anneal.run_length_rule).toContain("optimal");
+    // 100 sweeps is inside the grid 10, 100, 1000 at every size: an estimate, not a bound (run-length edge rule).
+    expect(anneal.exponent_status).toBe("estimate");
+    // 2^(0.3n) with lognormal instance noise is exponential over n = 18…30 by AIC (stats/growth-model.ts).
+    expect(anneal.growth_model).toBe("exponential");
     // Default --fit-from: 12 + (30 − 12)/3 = 18 (rule of harness/stats/fit.ts).
     expect(anneal.n_from).toBe(18);
     const exhaustive = fits.find((f) => f.method === "exhaustive" && f.measure === "work")!;
