@@ -47,9 +47,15 @@ export interface RunRecord extends RecordBase {
   readonly beta_end: number | null;
 }
 
-/** Spectral numerics at one b. */
+/**
+ * A predictor's worker-side numerics at one parameter value. The kind and the field `b` keep the names of the
+ * spectral method, the first such predictor, so that older journals resume; `predictor` is absent for it.
+ */
 export interface SpectralRecord extends RecordBase {
   readonly kind: "spectral";
+  /** Predictor name; absent means "spectral". */
+  readonly predictor?: string;
+  /** The cell's parameter value (b for the spectral method). */
   readonly b: number;
   readonly row: Readonly<Record<string, number | string | boolean | null>>;
 }

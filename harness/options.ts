@@ -1,7 +1,10 @@
 /**
  * Every study option, declared once: name, type, default, allowed range, unit and a one-line description.
  * `--help`, validation and the manifest are all derived from this table (DESIGN.md §7).
- */
+*/
+import { FAMILY_NAMES } from "./families/registry.js";
+import { SOLVER_NAMES } from "../solvers/registry.js";
+import { PREDICTOR_NAMES } from "./predict/registry.js";
 
 /** One option's declaration. */
 export interface OptionSpec {
@@ -17,19 +20,10 @@ export interface OptionSpec {
   readonly unit?: string;
 }
 
-/** Family names the tool generates or reads. */
-export const FAMILY_NAMES = ["ksat", "sk", "pspin", "maxcut", "cnf", "ising"] as const;
-/** Classical solvers. */
-export const SOLVER_NAMES = ["exhaustive", "walk", "anneal"] as const;
-/** Quantum predictors. */
-export const PREDICTOR_NAMES = [
-  "grover",
-  "grover-unknown",
-  "min-finding",
-  "amplified-walk",
-  "amplified-anneal",
-  "spectral",
-] as const;
+// Choices of --family, --solvers and --predict come from the registries, never typed again here.
+export { FAMILY_NAMES } from "./families/registry.js";
+export { SOLVER_NAMES } from "../solvers/registry.js";
+export { PREDICTOR_NAMES } from "./predict/registry.js";
 
 /** The study options (`run`, `slurm`, `instance` share the family part). */
 export const STUDY_OPTIONS: ReadonlyArray<OptionSpec> = [

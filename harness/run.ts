@@ -11,11 +11,12 @@ import type { InstanceContext } from "./families/registry.js";
 import { JournalWriter, readJournal, type JournalRecord, type RunRecord, type SpectralRecord, type TruthRecord } from "./journal.js";
 import { WorkerPool } from "./pool.js";
 import type { Progress } from "./progress.js";
-import { type Cell, type InstanceRef, type StudySpec, cellsOfInstance, instancesOf, shardInstances } from "./study.js";
-import type { SpectralAnswer, TrialsAnswer, TruthSliceAnswer } from "./tasks.js";
+import { type Cell, type InstanceRef, type StudySpec, cellsOfInstance, instancesOf, methodOptionsOf, shardInstances, solverStudyOf } from "./study.js";
+import type { PredictAnswer, TrialsAnswer, TruthSliceAnswer } from "./tasks.js";
 import { writeFileAtomic } from "./files.js";
-import { mergeExact, planSlices } from "../solvers/exhaustive.js";
-import { materialise } from "./families/registry.js";
+import { groundTruthSolver, trialsSolverNamed } from "../solvers/registry.js";
+import { familyNamed, materialise } from "./families/registry.js";
+import { sizeOf } from "./model/problem.js";
 import { costTolerance } from "./model/problem.js";
 
 /** How a run is carried out (not part of the study's identity). */
@@ -164,6 +165,9 @@ export async function runStudy(spec: StudySpec, options: RunOptions): Promise<Ru
     }
   };
 
+  const problemKind = familyNamed(spec.family).kind;
+  const solverStudy = solverStudyOf(spec);
+  const methodOptions = methodOptionsOf(spec);
   const ctxOf = (inst: InstanceRef): InstanceContext => ({
     family: spec.family, params: spec.familyParams, masterSeed: spec.seed, n: inst.n, index: inst.index, file: inst.file,
   });
@@ -176,11 +180,12 @@ export async function runStudy(spec: StudySpec, options: RunOptions): Promise<Ru
         // The slice plan needs the problem's kind and symmetry only; generating in the main thread is cheap
         // except for --satisfiable/--unique, which the first worker answer would repeat anyway.
         const problem = materialise(ctxOf(inst)).problem;
-        const slices = planSlices(problem, options.workers);
+        const exact = groundTruthSolver(problem.kind, false, sizeOf(problem));
+        const parts = exact.plan(problem, options.workers);
         const answers = await Promise.all(
-          slices.map((slice) => pool.run<TruthSliceAnswer>({ type: "truth-slice", ctx: ctxOf(inst), slice, stop: flag })),
+          parts.map((part) => pool.run<TruthSliceAnswer>({ type: "truth-slice", ctx: ctxOf(inst), solver: exact.name, part, stop: flag })),
         );
-        const merged = mergeExact(answers.map((a) => a.result), costTolerance(problem));
+        const merged = exact.merge(answers.map((a) => a.result), costTolerance(problem));
         const wall = answers.reduce((s, a) => s + a.wall_ns, 0);
         const status = merged.complete ? "ok" : "censored";
         return {
@@ -205,19 +210,19 @@ export async function runStudy(spec: StudySpec, options: RunOptions): Promise<Ru
         best: null, beta_start: null, beta_end: null, status: "error", wall_ns: 0, message: "", ...extra,
       });
       if (truth.status !== "ok" || truth.optimum === null) return rec(withoutTruth(truth));
-      if (cell.method === "walk" && truth.optimum > 0) {
-        return rec({ status: "skipped", message: "not applicable: unsatisfiable, and Schöning's walk only finds models" });
-      }
+      const solver = trialsSolverNamed(cell.method);
+      const skip = solver.skipReason({ kind: problemKind, optimum: truth.optimum });
+      if (skip !== null) return rec({ status: "skipped", message: skip });
       return withStopFlag(async (flag) => {
         try {
           const a = await pool.run<TrialsAnswer>({
-            type: "trials", ctx: ctxOf(inst), solver: cell.method as "walk" | "anneal", runLength: cell.runLength ?? 0,
-            trials: spec.trials, seed: cell.seed, target: truth.optimum as number, schedule: spec.schedule, beta: spec.beta, stop: flag,
+            type: "trials", ctx: ctxOf(inst), solver: cell.method, runLength: cell.runLength ?? 0,
+            trials: spec.trials, seed: cell.seed, target: truth.optimum as number, settings: solver.settings(solverStudy), stop: flag,
           });
           const r = a.result;
           return rec({
             status: r.censored ? "censored" : "ok", wall_ns: a.wall_ns, trials: r.trials, successes: r.successes, work: r.work,
-            best: Number.isFinite(r.best) ? r.best : null, beta_start: a.beta_start, beta_end: a.beta_end,
+            best: Number.isFinite(r.best) ? r.best : null, ...(r.extra as Partial<RunRecord> | undefined),
             message: r.censored ? `stopped by a time limit after ${r.trials} trials` : "",
           });
         } catch (e) {
@@ -226,12 +231,12 @@ export async function runStudy(spec: StudySpec, options: RunOptions): Promise<Ru
       });
     }
     const rec = (extra: Partial<SpectralRecord>): SpectralRecord => ({
-      ...base, kind: "spectral", b: cell.runLength ?? 0, row: {}, status: "error", wall_ns: 0, message: "", ...extra,
+      ...base, kind: "spectral", ...(cell.method === "spectral" ? {} : { predictor: cell.method }), b: cell.runLength ?? 0, row: {}, status: "error", wall_ns: 0, message: "", ...extra,
     });
     if (truth.status !== "ok" || truth.optimum === null) return rec(withoutTruth(truth));
     return withStopFlag(async (flag) => {
       try {
-        const a = await pool.run<SpectralAnswer>({ type: "spectral", ctx: ctxOf(inst), b: cell.runLength ?? 0, eta: spec.spectral.eta, optimum: truth.optimum as number, stop: flag });
+        const a = await pool.run<PredictAnswer>({ type: "predict", ctx: ctxOf(inst), predictor: cell.method, param: cell.runLength ?? 0, options: methodOptions, optimum: truth.optimum as number, stop: flag });
         return rec({ status: "ok", row: a.row, wall_ns: a.wall_ns });
       } catch (e) {
         return rec({ message: messageOf(e) });

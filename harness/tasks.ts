@@ -1,46 +1,52 @@
 /**
- * Messages between the run loop and the workers. Tasks carry only seeds and small numbers; the worker
- * regenerates the instance (DESIGN.md §3: never ship big arrays).
+ * Messages between the run loop and the workers. Tasks carry only seeds, names and small numbers; the worker
+ * regenerates the instance (DESIGN.md §3: never ship big arrays) and finds the method on its registry.
  */
 import type { InstanceContext } from "./families/registry.js";
-import type { Slice } from "../solvers/exhaustive.js";
-import type { ExactResult, TrialsResult } from "../solvers/types.js";
+import type { ExactResult, MethodOptions, TrialsOutcome } from "../solvers/types.js";
+import type { PredictionParts } from "./predict/types.js";
 
-/** Exact enumeration of one slice of an instance. */
+/** One part of the ground truth of an instance, by an exact solver of the registry. */
 export interface TruthSliceTask {
   readonly type: "truth-slice";
   readonly ctx: InstanceContext;
-  readonly slice: Slice;
+  /** Exact solver name (solvers/registry.ts). */
+  readonly solver: string;
+  /** The part, as the solver's `plan` made it (plain data). */
+  readonly part: unknown;
   /** Int32Array on a SharedArrayBuffer: element 0 non-zero = stop; element 1 set by the worker when it starts. */
   readonly stop: Int32Array;
 }
 
-/** Trials of a randomised solver at one run length. */
+/** Trials of a randomised solver of the registry at one run length. */
 export interface TrialsTask {
   readonly type: "trials";
   readonly ctx: InstanceContext;
-  readonly solver: "walk" | "anneal";
+  /** Randomised solver name (solvers/registry.ts). */
+  readonly solver: string;
   readonly runLength: number;
   readonly trials: number;
   readonly seed: string;
   /** Exact optimum from ground truth: success = reaching it. */
   readonly target: number;
-  readonly schedule: "linear" | "geometric";
-  readonly beta: readonly [number, number] | null;
+  /** The solver's settings (its `settings(study)`, plain data). */
+  readonly settings: unknown;
   readonly stop: Int32Array;
 }
 
-/** Spectral numerics at one b. */
-export interface SpectralTask {
-  readonly type: "spectral";
+/** A predictor's worker-side numerics at one parameter value. */
+export interface PredictTask {
+  readonly type: "predict";
   readonly ctx: InstanceContext;
-  readonly b: number;
-  readonly eta: number;
+  /** Predictor name (harness/predict/registry.ts). */
+  readonly predictor: string;
+  readonly param: number;
+  readonly options: MethodOptions;
   readonly optimum: number;
   readonly stop: Int32Array;
 }
 
-export type Task = TruthSliceTask | TrialsTask | SpectralTask;
+export type Task = TruthSliceTask | TrialsTask | PredictTask;
 
 /** Worker answer to a truth slice (the instance descriptors come along for instances.csv). */
 export interface TruthSliceAnswer {
@@ -54,15 +60,12 @@ export interface TruthSliceAnswer {
 
 /** Worker answer to a trials task. */
 export interface TrialsAnswer {
-  readonly result: TrialsResult;
+  readonly result: TrialsOutcome;
   readonly wall_ns: number;
-  /** Anneal: the inverse-temperature range used and the rule that chose it. */
-  readonly beta_start: number | null;
-  readonly beta_end: number | null;
 }
 
-/** Worker answer to a spectral task: the predictor's columns. */
-export interface SpectralAnswer {
-  readonly row: Readonly<Record<string, number | string | boolean | null>>;
+/** Worker answer to a predict task: the predictor's columns. */
+export interface PredictAnswer {
+  readonly row: PredictionParts;
   readonly wall_ns: number;
 }

@@ -24,8 +24,9 @@ import { deriveSeed, Rng } from "../harness/random.js";
 import type { Ising } from "../harness/model/ising.js";
 import type { Problem } from "../harness/model/problem.js";
 import { costTolerance } from "../harness/model/problem.js";
-import { stopRequested, type StopFlag, type TrialsResult } from "./types.js";
-import { compileCnf, trialKey, trialRng, type CompiledCnf } from "./walk.js";
+import { stopRequested, type StopFlag, type TrialsResult, type TrialsSolver } from "./types.js";
+import { compileCnf, type CompiledCnf } from "./compile-cnf.js";
+import { trialKey, trialRng } from "./trial-seeds.js";
 
 /** Inverse-temperature schedule across sweeps. */
 export type AnnealSchedule = "linear" | "geometric";
@@ -870,3 +871,40 @@ function fmt(x: number): string {
 function checkCount(name: string, value: number): void {
   if (!Number.isSafeInteger(value) || value < 0) throw new RangeError(`${name} must be an integer ≥ 0, got ${value}`);
 }
+
+/** Settings of the annealer on the registry. */
+export interface AnnealSettings {
+  /** Cooling law across sweeps. */
+  readonly schedule: AnnealSchedule;
+  /** Inverse-temperature range [β_start, β_end] (1/cost unit), or null for the instance-derived default. */
+  readonly beta: readonly [number, number] | null;
+}
+
+/** Simulated annealing on the solver registry (solvers/registry.ts). Run length = sweeps per trial. */
+export const annealSolver: TrialsSolver<AnnealSettings> = {
+  name: "anneal",
+  kind: "trials",
+  description: "Metropolis simulated annealing with single flips, one run per sweep count",
+  options: ["sweeps", "schedule", "beta", "trials"],
+  runLengthUnit: "sweeps",
+  appliesTo: () => null,
+  skipReason: () => null,
+  runLengths: (_n, study) => [...(study.options.sweeps as ReadonlyArray<number>)],
+  settings: (study) => ({
+    schedule: study.options.schedule as AnnealSchedule,
+    beta: (study.options.beta as readonly [number, number] | null) ?? null,
+  }),
+  prepare(problem, settings) {
+    if (settings.beta !== null) return settings;
+    const r = defaultBetaRange(problem);
+    return { schedule: settings.schedule, beta: [r.betaStart, r.betaEnd] };
+  },
+  run(problem, input) {
+    const range = input.settings.beta ?? annealSolver.prepare!(problem, input.settings).beta!;
+    const result = annealTrials(problem, {
+      trials: input.trials, sweeps: input.runLength, betaStart: range[0], betaEnd: range[1], schedule: input.settings.schedule,
+      target: input.target, tolerance: input.tolerance, seed: input.seed, stop: input.stop, firstTrial: 0,
+    });
+    return { ...result, extra: { beta_start: range[0], beta_end: range[1] } };
+  },
+};

@@ -137,6 +137,11 @@ export interface TrialsSolver<S = MethodOptions> {
   runLengths(n: number, study: SolverStudy): number[];
   /** Its settings, from the resolved study options (computed once per task; must be plain data). */
   settings(study: SolverStudy): S;
+  /**
+   * Optional instance-dependent set-up, run by the worker before it starts the clock (e.g. the annealer's
+   * temperature range derived from the instance). Pure; returns the settings `run` receives.
+   */
+  prepare?(problem: Problem, settings: S): S;
   /** The pure computation: no clock, console, file or Math.random. The worker times the call. */
   run(problem: Problem, input: TrialsInput<S>): TrialsOutcome;
 }
@@ -150,8 +155,11 @@ export interface ExactSolver<Part = unknown> {
   readonly name: string;
   readonly kind: "exact";
   readonly description: string;
-  /** Largest size it accepts for a problem (checked at the edge by the family registry's limits). */
-  maxSize(problem: Problem): number;
+  /**
+   * Largest size it accepts for a model kind (checked once at the edge, before any instance exists).
+   * @param flipSymmetric - every instance is invariant under the global flip (halves the work of some methods).
+   */
+  maxSize(kind: ProblemKind, flipSymmetric: boolean): number;
   /** Splits the work of one instance over `workers` workers. */
   plan(problem: Problem, workers: number): Part[];
   /** The pure computation of one part. */

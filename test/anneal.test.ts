@@ -5,7 +5,7 @@ import { isingFromTerms } from "../harness/model/ising.js";
 import { costOf, costTolerance, sizeOf, type Problem } from "../harness/model/problem.js";
 import type { TrialsResult } from "../solvers/types.js";
 import { annealTrials, betaSchedule, defaultBetaRange, type AnnealOptions } from "../solvers/anneal.js";
-import { trialRng } from "../solvers/walk.js";
+import { trialRng } from "../solvers/trial-seeds.js";
 
 /** Exact optimum by evaluating every configuration (costOf is the reference evaluator of the model). */
 function bruteOptimum(problem: Problem): number {

@@ -14,7 +14,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { cli, readCsv } from "./helpers/cli.js";
 import { cellSeed, type StudySpec } from "../harness/study.js";
 import { deriveSeed } from "../harness/random.js";
-import { trialRng } from "../solvers/walk.js";
+import { trialRng } from "../solvers/trial-seeds.js";
 
 const sha256 = (text: string): string => createHash("sha256").update(text).digest("hex");
 

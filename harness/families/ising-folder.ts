@@ -1,0 +1,26 @@
+/** The `ising` family: a folder of coupling-list files (`--from DIR`). */
+import { basename } from "node:path";
+import { parseCouplingList } from "../formats/coupling-list.js";
+import { readInstanceText } from "./cnf-folder.js";
+import type { FolderFamily, GeneratedInstance } from "./types.js";
+
+/**
+ * The `ising` family; meta = { file, terms }. Flip symmetry is decided per file by the solvers; at the edge a
+ * folder counts as not symmetric (the tighter size limits), since its files may differ.
+ */
+export const isingFolderFamily: FolderFamily = {
+  name: "ising",
+  kind: "ising",
+  source: "folder",
+  description: "a folder of coupling-list files (--from DIR)",
+  params: ["from"],
+  resolveParams: () => ({}),
+  checkSize: () => null,
+  flipSymmetric: () => false,
+  fileExtensions: /\.(txt|ising|couplings)$/i,
+  fileWords: ".txt/.ising/.couplings",
+  load(file: string): GeneratedInstance {
+    const ising = parseCouplingList(readInstanceText(file), file);
+    return { problem: { kind: "ising", ising }, seed: "", meta: { file: basename(file), terms: ising.coefficients.length } };
+  },
+};
