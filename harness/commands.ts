@@ -7,7 +7,7 @@ import { fileURLToPath } from "node:url";
 import { join, resolve } from "node:path";
 import { EXIT, InputError } from "./errors.js";
 import { OUT_FILES, runStudy, type RunSummary } from "./run.js";
-import { numberOption, parseDuration, parseShard, readStudyFolder, resolveFamilyParams, resolveStudy, parseSizeRange } from "./resolve.js";
+import { numberOption, parseDuration, parseShard, readStudyFolder, resolveFamilyParams, resolveStudy, parseSizeRange, resolveCostModel } from "./resolve.js";
 import { consoleProgress } from "./progress.js";
 import { writeOutputs } from "./report/outputs.js";
 import { buildManifest } from "./manifest.js";
@@ -176,7 +176,7 @@ export async function spectral(argv: Args): Promise<number> {
 
 /** `speedbound cost`: the cost model's assumptions and a worked example. */
 export async function cost(argv: Args): Promise<number> {
-  const rows = costModelRows(argv);
+  const rows = costModelRows(resolveCostModel(argv));
   const w = [0, 0];
   for (const r of rows) {
     w[0] = Math.max(w[0], r.quantity.length);

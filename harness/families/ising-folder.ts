@@ -17,6 +17,13 @@ export const isingFolderFamily: FolderFamily = {
   resolveParams: () => ({}),
   checkSize: () => null,
   flipSymmetric: () => false,
+  // Coupling files: the largest measured size's mean term count, scaled as n^2 (the crossover may lie beyond it).
+  costShape(_params, instances) {
+    const largest = instances.reduce((m, r) => Math.max(m, r.n), 1);
+    const rows = instances.filter((r) => r.n === largest);
+    const terms = (rows.length ? rows.reduce((s, r) => s + Number(r.terms), 0) / rows.length : 0) || 1;
+    return { kind: "ising", clausesPerVariable: 0, k: 0, termsAt: (n) => terms * (n / largest) ** 2, order: 2 };
+  },
   fileExtensions: /\.(txt|ising|couplings)$/i,
   fileWords: ".txt/.ising/.couplings",
   load(file: string): GeneratedInstance {

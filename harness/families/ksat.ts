@@ -117,6 +117,7 @@ export const ksatFamily: GeneratedFamily = {
   },
   checkSize: (n, params) => (n < Number(params.k) ? `--n: size ${n} is smaller than k = ${params.k}` : null),
   flipSymmetric: () => false,
+  costShape: (params) => ({ kind: "ksat", clausesPerVariable: Number(params.density), k: Number(params.k), termsAt: () => 0, order: 0 }),
   generate(masterSeed: string, params: FamilyParams, n: number, index: number): GeneratedInstance {
     const p = ksatParams(params);
     validateKsat(p, n);

@@ -42,6 +42,7 @@ export const maxcutFamily: GeneratedFamily = {
     return n <= d || (n * d) % 2 === 1 ? `--n: no simple ${d}-regular graph on ${n} vertices (need n > d and n·d even)` : null;
   },
   flipSymmetric: () => true,
+  costShape: (params) => ({ kind: "ising", clausesPerVariable: 0, k: 0, termsAt: (n) => (n * Number(params.degree)) / 2, order: 2 }),
   // The optimum energy Σ_edges s_i s_j as the largest cut, (edges − E)/2.
   describe: (meta, optimum): Record<string, number> => (optimum === null ? {} : { max_cut: cutValue(Number(meta.edges), optimum) }),
   generate(masterSeed: string, params: FamilyParams, n: number, index: number): GeneratedInstance {

@@ -46,6 +46,15 @@ export const pspinFamily: GeneratedFamily = {
   },
   // Terms of even order only: E(s) = E(−s).
   flipSymmetric: (params) => Number(params.p) % 2 === 0,
+  costShape(params) {
+    const p = Number(params.p);
+    const binom = (n: number): number => {
+      let c = 1;
+      for (let i = 0; i < p; i++) c = (c * (n - i)) / (i + 1);
+      return c;
+    };
+    return { kind: "ising", clausesPerVariable: 0, k: 0, termsAt: binom, order: p };
+  },
   generate(masterSeed: string, params: FamilyParams, n: number, index: number): GeneratedInstance {
     const p = Number(params.p ?? 3);
     if (!Number.isInteger(p) || p < 2) throw new InputError(`--p: ${String(params.p)} must be an integer ≥ 2`);

@@ -30,6 +30,7 @@ export const skFamily: GeneratedFamily = {
   },
   checkSize: () => null,
   flipSymmetric: () => true,
+  costShape: () => ({ kind: "ising", clausesPerVariable: 0, k: 0, termsAt: (n) => (n * (n - 1)) / 2, order: 2 }),
   generate(masterSeed: string, params: FamilyParams, n: number, index: number): GeneratedInstance {
     const couplings = String(params.couplings ?? "gauss");
     if (couplings !== "gauss" && couplings !== "pm1") {

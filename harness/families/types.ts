@@ -18,6 +18,22 @@ export interface GeneratedInstance {
   readonly meta: Readonly<Record<string, number | string | boolean>>;
 }
 
+/** Size facts of a family at size n that the Toffoli counts of the cost model need. */
+export interface FamilyCostShape {
+  readonly kind: "ksat" | "ising";
+  /** CNF: clauses per variable (0 for Ising). */
+  readonly clausesPerVariable: number;
+  /** CNF: literals per clause (the mean for mixed lengths; 0 for Ising). */
+  readonly k: number;
+  /** Ising: terms at size n (may be evaluated beyond the measured sizes). */
+  readonly termsAt: (n: number) => number;
+  /** Ising: interaction order of the terms. */
+  readonly order: number;
+}
+
+/** One row of instances.csv as a family's cost shape reads it. */
+export type InstanceDescriptors = Readonly<Record<string, number | string | boolean | null>> & { readonly n: number };
+
 /**
  * How a family reads its parameters at the edge: values of the option table, already range-checked there
  * (the CLI provides it; tests may provide their own).
@@ -55,6 +71,8 @@ export interface FamilyBase {
   checkSize(n: number, params: FamilyParams): string | null;
   /** True when every instance is invariant under the global flip (only even-order terms). */
   flipSymmetric(params: FamilyParams): boolean;
+  /** Size facts for the cost model, from its parameters (and the instances' descriptors for folder families). */
+  costShape(params: FamilyParams, instances: ReadonlyArray<InstanceDescriptors>): FamilyCostShape;
   /**
    * Descriptors of instances.csv beyond the instance's own `meta`, derived from the ground truth (e.g. the
    * maximum cut of a MaxCut instance). Optional.

@@ -4,7 +4,7 @@
  * comparison and crossover estimates use.
  */
 import type { StudySpec } from "../study.js";
-import { resolveCostModel } from "../resolve.js";
+import type { FamilyCostShape } from "../families/types.js";
 import {
   COST_MODEL_DEFAULTS,
   type CostModelOptions,
@@ -28,19 +28,13 @@ export function costModelOptions(c: StudySpec["costModel"]): CostModelOptions {
   };
 }
 
-/** Rows of the `speedbound cost` table from the command-line options of the cost-model group. */
-export function costModelRows(argv: Readonly<Record<string, unknown>>): Array<{ quantity: string; value: string; source: string }> {
-  return describeCostModel(costModelOptions(resolveCostModel(argv)));
+/** Rows of the `speedbound cost` table from resolved cost-model options (the edge resolves the command line). */
+export function costModelRows(costModel: StudySpec["costModel"]): Array<{ quantity: string; value: string; source: string }> {
+  return describeCostModel(costModelOptions(costModel));
 }
 
-/** Size facts of a family at size n that the Toffoli counts need (mean clauses or terms of the instances). */
-export interface FamilyShape {
-  readonly kind: "ksat" | "ising";
-  readonly clausesPerVariable: number;
-  readonly k: number;
-  readonly termsAt: (n: number) => number;
-  readonly order: number;
-}
+/** Size facts of a family at size n that the Toffoli counts need (declared by each family: families/types.ts). */
+export type FamilyShape = FamilyCostShape;
 
 /**
  * For k-SAT the Metropolis update's local field is the sum over the ≈ m·k/n clauses holding the variable, so
