@@ -21,7 +21,7 @@ import { WorkerPool } from "./pool.js";
 import { groundTruthSolver } from "../solvers/registry.js";
 import type { TruthSliceAnswer } from "./tasks.js";
 import { canonicalParams } from "./families/params.js";
-import { FAMILY_NAMES } from "./options.js";
+import { FAMILY_NAMES, defaultFor, resolvedOptions } from "./options.js";
 import { formatComparison } from "./report/paper.js";
 import { computeSpectral } from "./predict/spectral-cell.js";
 import { costModelRows } from "./predict/cost-table.js";
@@ -47,7 +47,7 @@ export async function run(argv: Args, rawArgs: ReadonlyArray<string>): Promise<n
   const summary = await runStudy(spec, { out, workers, budgetMs, cellLimitMs, shard, progress: consoleProgress(), graceMs: 10_000 });
   if (summary.tornJournalLine) process.stderr.write(`speedbound: warning: the journal's last line was torn (a killed run) and was dropped\n`);
   const { paper } = await writeOutputs(spec, out);
-  writeFileAtomic(join(out, OUT_FILES.manifest), JSON.stringify(buildManifest({ argv: rawArgs, spec, workers, shard, started, ended: new Date(), summary }), null, 2) + "\n");
+  writeFileAtomic(join(out, OUT_FILES.manifest), JSON.stringify(buildManifest({ argv: rawArgs, spec, workers, shard, started, ended: new Date(), summary, extra: { options: resolvedOptions(argv, "run"), budget_ms: budgetMs, cell_limit_ms: cellLimitMs } }), null, 2) + "\n");
   process.stdout.write(formatComparison(paper) + "\n");
   process.stdout.write(summaryLine(summary, out) + "\n");
   if (summary.interrupted === "SIGINT") return EXIT.interrupted;
@@ -130,12 +130,12 @@ export async function instance(argv: Args): Promise<number> {
   if (!FAMILY_NAMES.includes(family) || familyNamed(family).source !== "generated") {
     throw new InputError(`--family: '${family}' is not a generated family (${FAMILIES.filter((f) => f.source === "generated").map((f) => f.name).join(", ")})`);
   }
-  const sizes = parseSizeRange(String(argv.n ?? "20"));
+  const sizes = parseSizeRange(String(argv.n ?? defaultFor("n", "instance")));
   if (sizes.length !== 1) throw new InputError(`--n: give one size for 'instance', got '${String(argv.n)}'`);
   const index = Number(argv.index ?? 0);
   if (!Number.isInteger(index) || index < 0) throw new InputError(`--index: '${String(argv.index)}' is not a whole number ≥ 0`);
   const params = resolveFamilyParams(argv, family);
-  const seed = String(argv.seed ?? "1");
+  const seed = String(argv.seed ?? defaultFor("seed", "instance"));
   const why = generatorFor(family).checkSize(sizes[0], params);
   if (why !== null) throw new InputError(why);
   const inst = generatorFor(family).generate(seed, params, sizes[0], index);
@@ -164,8 +164,8 @@ export async function report(argv: Args): Promise<number> {
 export async function spectral(argv: Args): Promise<number> {
   const file = String(argv.file);
   const problem = readProblemFile(file);
-  const eta = numberOption(argv, "eta") as number;
-  const b = numberOption(argv, "b") as number;
+  const eta = numberOption(argv, "spectral-eta") as number;
+  const b = numberOption(argv, "spectral-b") as number;
   const start = process.hrtime.bigint();
   const row = computeSpectral(problem, null, b, eta);
   const result = { file, n: sizeOf(problem), ...row, wall_ns: Number(process.hrtime.bigint() - start) };

@@ -7,7 +7,7 @@ import { join, resolve } from "node:path";
 import { InputError } from "./errors.js";
 import { familyNamed, folderFamily } from "./families/registry.js";
 import type { Family, FamilyParams, ParamReader } from "./families/types.js";
-import { STUDY_OPTIONS, type OptionSpec } from "./options.js";
+import { optionSpec, type OptionSpec } from "./options.js";
 import type { StudySpec } from "./study.js";
 import { sizeOf } from "./model/problem.js";
 import { PREDICTOR_NAMES, predictorNamed } from "./predict/registry.js";
@@ -51,9 +51,7 @@ export function parseShard(text: string): { k: number; count: number } {
 }
 
 function spec(name: string): OptionSpec {
-  const s = STUDY_OPTIONS.find((o) => o.name === name);
-  if (!s) throw new Error(`no option ${name}`);
-  return s;
+  return optionSpec(name);
 }
 
 /** Reads a numeric option with its declared range. */
@@ -174,25 +172,25 @@ export function resolveStudy(argv: Argv): StudySpec {
   if (!wf) throw new InputError(`--walk-flips: '${walkFlipsText}' is not of the form Kn (e.g. 3n)`);
   const walkFlipsPerVariable = Number(wf[1]);
   if (!(walkFlipsPerVariable > 0)) throw new InputError(`--walk-flips: must be positive, got '${walkFlipsText}'`);
-  const sweeps = numberList(String(argv.sweeps ?? spec("sweeps").default), "--sweeps").map((s) => {
-    if (!Number.isInteger(s)) throw new InputError(`--sweeps: '${s}' is not a whole number`);
+  const sweeps = numberList(String(argv["anneal-sweeps"] ?? spec("anneal-sweeps").default), "--anneal-sweeps").map((s) => {
+    if (!Number.isInteger(s)) throw new InputError(`--anneal-sweeps: '${s}' is not a whole number`);
     return s;
   });
-  const schedule = String(argv.schedule ?? "geometric");
-  if (schedule !== "linear" && schedule !== "geometric") throw new InputError(`--schedule: '${schedule}' is not linear or geometric`);
+  const schedule = String(argv["anneal-cooling"] ?? spec("anneal-cooling").default);
+  if (schedule !== "linear" && schedule !== "geometric") throw new InputError(`--anneal-cooling: '${schedule}' is not linear or geometric`);
   let beta: [number, number] | null = null;
-  if (argv.beta !== undefined) {
-    const parts = String(argv.beta).split(":").map(Number);
+  if (argv["anneal-beta"] !== undefined) {
+    const parts = String(argv["anneal-beta"]).split(":").map(Number);
     if (parts.length !== 2 || !parts.every((x) => Number.isFinite(x) && x > 0) || parts[1] < parts[0]) {
-      throw new InputError(`--beta: '${String(argv.beta)}' is not START:END with 0 < START ≤ END`);
+      throw new InputError(`--anneal-beta: '${String(argv["anneal-beta"])}' is not START:END with 0 < START ≤ END`);
     }
     beta = [parts[0], parts[1]];
   }
-  let bValues = [numberOption(argv, "b") as number];
-  if (argv["b-scan"] !== undefined) {
-    const parts = String(argv["b-scan"]).split(":").map(Number);
+  let bValues = [numberOption(argv, "spectral-b") as number];
+  if (argv["spectral-b-scan"] !== undefined) {
+    const parts = String(argv["spectral-b-scan"]).split(":").map(Number);
     if (parts.length !== 3 || !parts.every(Number.isFinite) || parts[2] <= 0 || parts[1] < parts[0] || parts[0] < 0) {
-      throw new InputError(`--b-scan: '${String(argv["b-scan"])}' is not FROM:TO:STEP with 0 ≤ FROM ≤ TO and STEP > 0`);
+      throw new InputError(`--spectral-b-scan: '${String(argv["spectral-b-scan"])}' is not FROM:TO:STEP with 0 ≤ FROM ≤ TO and STEP > 0`);
     }
     bValues = [];
     for (let i = 0; parts[0] + i * parts[2] <= parts[1] + 1e-12; i++) bValues.push(Number((parts[0] + i * parts[2]).toPrecision(12)));
@@ -211,7 +209,7 @@ export function resolveStudy(argv: Argv): StudySpec {
     schedule,
     beta,
     predictors,
-    spectral: { bValues, eta: numberOption(argv, "eta") as number },
+    spectral: { bValues, eta: numberOption(argv, "spectral-eta") as number },
     costModel: resolveCostModel(argv),
     report: { fitFrom: optionalNumber(argv, "fit-from"), resamples: numberOption(argv, "resamples") as number },
   };
