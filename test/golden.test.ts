@@ -12,7 +12,7 @@ import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { cli, readCsv } from "./helpers/cli.js";
-import { cellSeed, type StudySpec } from "../harness/study.js";
+import { cellSeed, type StudySpec } from "../harness/engine/study.js";
 import { deriveSeed } from "../harness/random.js";
 import { trialRng } from "../solvers/trial-seeds.js";
 

@@ -7,14 +7,14 @@
  * Option names that belong to one method carry its prefix (`--walk-…`, `--anneal-…`, `--spectral-…`); the
  * spellings before the prefixes are accepted as hidden aliases.
  */
-import { FAMILY_NAMES } from "./families/registry.js";
-import { SOLVER_NAMES } from "../solvers/registry.js";
-import { PREDICTOR_NAMES } from "./predict/registry.js";
+import { FAMILY_NAMES } from "../families/registry.js";
+import { SOLVER_NAMES } from "../../solvers/registry.js";
+import { PREDICTOR_NAMES } from "../predict/registry.js";
 
 // Choices of --family, --solvers and --predict come from the registries, never typed again here.
-export { FAMILY_NAMES } from "./families/registry.js";
-export { SOLVER_NAMES } from "../solvers/registry.js";
-export { PREDICTOR_NAMES } from "./predict/registry.js";
+export { FAMILY_NAMES } from "../families/registry.js";
+export { SOLVER_NAMES } from "../../solvers/registry.js";
+export { PREDICTOR_NAMES } from "../predict/registry.js";
 
 /** The commands of the tool. */
 export type CommandName = "run" | "demo" | "solve" | "instance" | "report" | "spectral" | "merge" | "compare" | "slurm" | "cost";

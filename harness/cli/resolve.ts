@@ -2,16 +2,16 @@
  * Validation at the edge: turns parsed command-line values into a frozen {@link StudySpec}. Every problem
  * becomes an InputError naming the option and the value (exit code 2).
  */
-import { existsSync, readdirSync, readFileSync, statSync } from "node:fs";
+import { existsSync, readdirSync, statSync } from "node:fs";
 import { join, resolve } from "node:path";
-import { InputError } from "./errors.js";
-import { familyNamed, folderFamily } from "./families/registry.js";
-import type { Family, FamilyParams, ParamReader } from "./families/types.js";
+import { InputError } from "../errors.js";
+import { familyNamed, folderFamily } from "../families/registry.js";
+import type { Family, FamilyParams, ParamReader } from "../families/types.js";
 import { optionSpec, type OptionSpec } from "./options.js";
-import type { StudySpec } from "./study.js";
-import { sizeOf } from "./model/problem.js";
-import { PREDICTOR_NAMES, predictorNamed } from "./predict/registry.js";
-import { SOLVER_NAMES, groundTruthSolver, trialsSolverNamed } from "../solvers/registry.js";
+import type { StudySpec } from "../engine/study.js";
+import { sizeOf } from "../model/problem.js";
+import { PREDICTOR_NAMES, predictorNamed } from "../predict/registry.js";
+import { SOLVER_NAMES, groundTruthSolver, trialsSolverNamed } from "../../solvers/registry.js";
 
 type Argv = Readonly<Record<string, unknown>>;
 
@@ -240,16 +240,4 @@ function deepFreeze<T>(o: T): T {
     Object.freeze(o);
   }
   return o;
-}
-
-/** Reads the study spec a folder holds (spec.json), for `report`, `compare` and `merge`. */
-export function readStudyFolder(dir: string): { spec: StudySpec; shard: { k: number; count: number } | null } {
-  const path = join(dir, "spec.json");
-  if (!existsSync(dir)) throw new InputError(`${dir}: folder does not exist`);
-  if (!existsSync(path)) throw new InputError(`${dir}: not a speedbound output folder (no spec.json)`);
-  try {
-    return JSON.parse(readFileSync(path, "utf8")) as { spec: StudySpec; shard: { k: number; count: number } | null };
-  } catch {
-    throw new InputError(`${path}:1: spec.json does not parse`);
-  }
 }

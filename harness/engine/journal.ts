@@ -5,7 +5,7 @@
  * {@link SYNC_EVERY_MS} ms, whichever comes first (so a power cut loses at most that much).
  */
 import { closeSync, existsSync, fsyncSync, openSync, readFileSync, truncateSync, writeSync } from "node:fs";
-import type { CellStatus } from "./types.js";
+import type { CellStatus } from "../types.js";
 
 /** fsync batch size (records). */
 export const SYNC_EVERY_RECORDS = 32;

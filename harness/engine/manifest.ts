@@ -7,12 +7,12 @@ import { readFileSync } from "node:fs";
 import { cpus, totalmem } from "node:os";
 import { fileURLToPath } from "node:url";
 import type { StudySpec } from "./study.js";
-import type { RunSummary } from "./run.js";
+import type { RunSummary } from "./run-summary.js";
 
-/** Root of the installed package (two levels above the compiled harness/). */
+/** Root of the installed package (three levels above the compiled harness/engine/). */
 function packageRoot(): string {
   const here = fileURLToPath(import.meta.url);
-  const levels = here.includes(`${"/"}dist${"/"}`) ? "../../" : "../";
+  const levels = here.includes(`${"/"}dist${"/"}`) ? "../../../" : "../../";
   return fileURLToPath(new URL(levels, import.meta.url));
 }
 

@@ -4,20 +4,18 @@
  * sizes. Every finished cell goes to the journal at once; tables are rebuilt from the journal at the end, so a
  * killed run resumes where it stopped and ends with the same tables.
  */
-import { existsSync, mkdirSync, readFileSync } from "node:fs";
 import { join } from "node:path";
-import { InputError } from "./errors.js";
-import type { InstanceContext } from "./families/registry.js";
+import type { InstanceContext } from "../families/registry.js";
 import { JournalWriter, readJournal, type JournalRecord, type RunRecord, type SpectralRecord, type TruthRecord } from "./journal.js";
 import { WorkerPool } from "./pool.js";
 import type { Progress } from "./progress.js";
+import { OUT_FILES, prepareOutput } from "./output-folder.js";
+import type { RunSummary } from "./run-summary.js";
 import { type Cell, type InstanceRef, type StudySpec, cellsOfInstance, instancesOf, methodOptionsOf, shardInstances, solverStudyOf } from "./study.js";
 import type { PredictAnswer, TrialsAnswer, TruthSliceAnswer } from "./tasks.js";
-import { writeFileAtomic } from "./files.js";
-import { groundTruthSolver, trialsSolverNamed } from "../solvers/registry.js";
-import { familyNamed, materialise } from "./families/registry.js";
-import { sizeOf } from "./model/problem.js";
-import { costTolerance } from "./model/problem.js";
+import { groundTruthSolver, trialsSolverNamed } from "../../solvers/registry.js";
+import { familyNamed, materialise } from "../families/registry.js";
+import { costTolerance, sizeOf } from "../model/problem.js";
 
 /** How a run is carried out (not part of the study's identity). */
 export interface RunOptions {
@@ -34,51 +32,8 @@ export interface RunOptions {
   readonly graceMs: number;
 }
 
-/** What a run did. */
-export interface RunSummary {
-  readonly cellsTotal: number;
-  readonly cellsDone: number;
-  readonly cellsResumed: number;
-  readonly errors: number;
-  readonly censored: number;
-  readonly skipped: number;
-  readonly completeSizes: number[];
-  readonly incompleteSizes: number[];
-  readonly interrupted: NodeJS.Signals | null;
-  readonly tornJournalLine: boolean;
-}
-
 /** How often the cell limit is checked (ms); a cell may overrun its limit by about this much. */
 export const LIMIT_POLL_MS = 25;
-
-/** File names inside an output folder. */
-export const OUT_FILES = { spec: "spec.json", journal: "journal.jsonl", manifest: "manifest.json" } as const;
-
-/**
- * Checks the output folder: creates it, or, when it already holds a study, insists it is the same study
- * (compared on the resolved spec, not the command line), so that a rerun resumes instead of mixing studies.
- */
-export function prepareOutput(spec: StudySpec, out: string, shard: RunOptions["shard"]): void {
-  try {
-    mkdirSync(out, { recursive: true });
-  } catch (e) {
-    throw new InputError(`--out: cannot create '${out}' (${(e as NodeJS.ErrnoException).code ?? String(e)})`);
-  }
-  const specPath = join(out, OUT_FILES.spec);
-  const identity = JSON.stringify({ spec, shard }, null, 2) + "\n";
-  if (existsSync(specPath)) {
-    const previous = readFileSync(specPath, "utf8");
-    if (previous !== identity) {
-      throw new InputError(`--out: '${out}' holds a different study (see its ${OUT_FILES.spec}); choose another folder or remove it`);
-    }
-    return;
-  }
-  try {
-    writeFileAtomic(specPath, identity);
-  } catch (e) {
-    throw new InputError(`--out: cannot write in '${out}' (${(e as NodeJS.ErrnoException).code ?? String(e)})`);
-  }
-}
 
 /** Runs (or resumes) a study. Resolves when every cell is journalled, skipped by the budget, or interrupted. */
 export async function runStudy(spec: StudySpec, options: RunOptions): Promise<RunSummary> {

@@ -4,13 +4,14 @@
  * length on one instance, or one spectral computation on one instance. Every cell carries its own seed,
  * derived from the master seed and what identifies it, so results never depend on worker count, order or shard.
  */
-import type { FamilyParams } from "./families/types.js";
-import { canonicalParams } from "./families/params.js";
-import { deriveSeed } from "./random.js";
-import { familyNamed } from "./families/registry.js";
-import { predictorNamed } from "./predict/registry.js";
-import { trialsSolverNamed } from "../solvers/registry.js";
-import type { MethodOptions, SolverStudy } from "../solvers/types.js";
+import type { FamilyParams } from "../families/types.js";
+import { canonicalParams } from "../families/params.js";
+import { deriveSeed } from "../random.js";
+import type { CostModelSettings } from "../predict/cost-table.js";
+import { familyNamed } from "../families/registry.js";
+import { predictorNamed } from "../predict/registry.js";
+import { trialsSolverNamed } from "../../solvers/registry.js";
+import type { MethodOptions, SolverStudy } from "../../solvers/types.js";
 
 /** A study after validation: frozen and complete (defaults filled in). Written to spec.json and the manifest. */
 export interface StudySpec {
@@ -33,14 +34,7 @@ export interface StudySpec {
   readonly beta: readonly [number, number] | null;
   readonly predictors: ReadonlyArray<string>;
   readonly spectral: { readonly bValues: ReadonlyArray<number>; readonly eta: number };
-  readonly costModel: {
-    readonly toffoliSeconds: number;
-    readonly factories: number;
-    readonly classicalParallelism: number;
-    readonly oracleToffolis: number | null;
-    readonly walkStepToffolis: number | null;
-    readonly annealStepToffolis: number | null;
-  };
+  readonly costModel: CostModelSettings;
   readonly report: { readonly fitFrom: number | null; readonly resamples: number };
 }
 

@@ -2,9 +2,9 @@
  * Messages between the run loop and the workers. Tasks carry only seeds, names and small numbers; the worker
  * regenerates the instance (DESIGN.md §3: never ship big arrays) and finds the method on its registry.
  */
-import type { InstanceContext } from "./families/registry.js";
-import type { ExactResult, MethodOptions, TrialsOutcome } from "../solvers/types.js";
-import type { PredictionParts } from "./predict/types.js";
+import type { InstanceContext } from "../families/registry.js";
+import type { ExactResult, MethodOptions, TrialsOutcome } from "../../solvers/types.js";
+import type { PredictionParts } from "../predict/types.js";
 
 /** One part of the ground truth of an instance, by an exact solver of the registry. */
 export interface TruthSliceTask {

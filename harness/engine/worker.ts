@@ -2,12 +2,12 @@
  * Worker entry for the piscina pool: rebuilds the instance from its seed (or file), runs one solver or
  * predictor, and returns a small result. The wall clock is read here, around the pure computation.
  */
-import { materialise, type InstanceContext } from "./families/registry.js";
-import type { GeneratedInstance } from "./families/types.js";
-import { costTolerance, meanCost } from "./model/problem.js";
+import { materialise, type InstanceContext } from "../families/registry.js";
+import type { GeneratedInstance } from "../families/types.js";
+import { costTolerance, meanCost } from "../model/problem.js";
 import type { PredictAnswer, Task, TrialsAnswer, TruthSliceAnswer } from "./tasks.js";
-import { exactSolverNamed, trialsSolverNamed } from "../solvers/registry.js";
-import { predictorNamed } from "./predict/registry.js";
+import { exactSolverNamed, trialsSolverNamed } from "../../solvers/registry.js";
+import { predictorNamed } from "../predict/registry.js";
 
 // Slices and runs of one instance usually reach the same worker in a row; regenerating is cheap for plain
 // draws but costs exact enumerations for --satisfiable/--unique, so the last instance is kept.

@@ -3,7 +3,6 @@
  * cost-model.ts: resolved options, the `speedbound cost` table, and the seconds-per-query function the
  * comparison and crossover estimates use.
  */
-import type { StudySpec } from "../study.js";
 import type { FamilyCostShape } from "../families/types.js";
 import {
   COST_MODEL_DEFAULTS,
@@ -15,8 +14,18 @@ import {
   walkStepToffolis,
 } from "./cost-model.js";
 
+/** The cost-model settings of a study as the command line gave them (StudySpec.costModel). */
+export interface CostModelSettings {
+  readonly toffoliSeconds: number;
+  readonly factories: number;
+  readonly classicalParallelism: number;
+  readonly oracleToffolis: number | null;
+  readonly walkStepToffolis: number | null;
+  readonly annealStepToffolis: number | null;
+}
+
 /** The cost-model options of a study. */
-export function costModelOptions(c: StudySpec["costModel"]): CostModelOptions {
+export function costModelOptions(c: CostModelSettings): CostModelOptions {
   return {
     ...COST_MODEL_DEFAULTS,
     toffoliSeconds: c.toffoliSeconds,
@@ -29,7 +38,7 @@ export function costModelOptions(c: StudySpec["costModel"]): CostModelOptions {
 }
 
 /** Rows of the `speedbound cost` table from resolved cost-model options (the edge resolves the command line). */
-export function costModelRows(costModel: StudySpec["costModel"]): Array<{ quantity: string; value: string; source: string }> {
+export function costModelRows(costModel: CostModelSettings): Array<{ quantity: string; value: string; source: string }> {
   return describeCostModel(costModelOptions(costModel));
 }
 
@@ -44,7 +53,7 @@ export type FamilyShape = FamilyCostShape;
  * reversible solver step times the steps of one trial for the amplified solvers (their "queries" are trial runs).
  */
 export function secondsPerQuery(
-  spec: StudySpec,
+  spec: { readonly costModel: CostModelSettings },
   shape: FamilyShape,
   stepsPerTrial: (predictor: string, n: number) => number,
 ): (family: string, predictor: string, n: number) => number {

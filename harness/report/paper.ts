@@ -4,10 +4,10 @@
  * crossover estimates under the cost model), table.tex, table.md and scaling-FAMILY.svg.
  */
 import { join } from "node:path";
-import type { StudySpec } from "../study.js";
+import type { StudySpec } from "../engine/study.js";
 import type { Tables } from "./tables.js";
 import { writeCsv } from "./csv.js";
-import { writeFileAtomic } from "../files.js";
+import { writeFileAtomic } from "../engine/files.js";
 import {
   COMPARISON_COLUMNS,
   FIT_COLUMNS,
@@ -25,6 +25,7 @@ import { comparisonLegend, comparisonTerminalTable } from "./terminal-table.js";
 import { scalingPlotSvg } from "./plot.js";
 import { secondsPerQuery, type FamilyShape } from "../predict/cost-table.js";
 import { familyNamed } from "../families/registry.js";
+import { OUT_FILES, scalingPlotFile } from "../engine/output-folder.js";
 
 /** The paper outputs, also returned for printing. */
 export interface PaperOutputs {
@@ -43,12 +44,12 @@ export async function writePaperOutputs(spec: StudySpec, out: string, tables: Ta
   const fits = fitScaling(tables.runs, tables.predictions, { ...options, fitFrom: spec.report.fitFrom });
   const perQuery = secondsPerQuery(spec, familyShape(spec, tables), (predictor, n) => stepsPerTrial(spec, sizes, predictor, n));
   const comparison = compareMethods(fits, perQuery, { parallelism: spec.costModel.classicalParallelism });
-  writeCsv(join(out, "sizes.csv"), sizes, SIZE_COLUMNS as string[]);
-  writeCsv(join(out, "fits.csv"), fits, FIT_COLUMNS as string[]);
-  writeCsv(join(out, "comparison.csv"), comparison, COMPARISON_COLUMNS as string[]);
-  writeFileAtomic(join(out, "table.tex"), comparisonLatex(comparison));
-  writeFileAtomic(join(out, "table.md"), comparisonMarkdown(comparison));
-  if (sizes.length > 0) writeFileAtomic(join(out, `scaling-${spec.family}.svg`), await scalingPlotSvg(sizes, fits, spec.family));
+  writeCsv(join(out, OUT_FILES.sizes), sizes, SIZE_COLUMNS as string[]);
+  writeCsv(join(out, OUT_FILES.fits), fits, FIT_COLUMNS as string[]);
+  writeCsv(join(out, OUT_FILES.comparison), comparison, COMPARISON_COLUMNS as string[]);
+  writeFileAtomic(join(out, OUT_FILES.latex), comparisonLatex(comparison));
+  writeFileAtomic(join(out, OUT_FILES.markdown), comparisonMarkdown(comparison));
+  if (sizes.length > 0) writeFileAtomic(join(out, scalingPlotFile(spec.family)), await scalingPlotSvg(sizes, fits, spec.family));
   return { sizes, fits, comparison };
 }
 

@@ -3,8 +3,8 @@
  * predictors are evaluated here from the recorded ground truth and measured success probabilities: they
  * are pure functions of those, so they need no cells of their own and change when the journal does.
  */
-import type { JournalRecord, RunRecord, SpectralRecord, TruthRecord } from "../journal.js";
-import type { StudySpec } from "../study.js";
+import type { JournalRecord, RunRecord, SpectralRecord, TruthRecord } from "../engine/journal.js";
+import type { StudySpec } from "../engine/study.js";
 import type { InstanceRow, PredictionRow, RunRow } from "../types.js";
 import { ttsFromCounts } from "../stats/tts.js";
 import { PREDICTORS, predictorNamed } from "../predict/registry.js";

@@ -4,10 +4,10 @@
  * 30 ms or more, issue 2).
  */
 import { availableParallelism } from "node:os";
-import { WorkerPool } from "../../harness/pool.js";
+import { WorkerPool } from "../../harness/engine/pool.js";
 import { ksatFamily } from "../../harness/families/ksat.js";
 import { mergeExact, planSlices } from "../../solvers/exhaustive.js";
-import type { TruthSliceAnswer } from "../../harness/tasks.js";
+import type { TruthSliceAnswer } from "../../harness/engine/tasks.js";
 
 const PARAMS = { k: 3, density: 4.26, planted: false, satisfiable: false, unique: false };
 
