@@ -160,26 +160,44 @@ function pollStop(poll: Poll): boolean {
 }
 
 /**
- * Default inverse-temperature range of a problem, derived from its own energy scale by this rule
- * (deterministic: the sample comes from a fixed seed, so the range is a pure function of the instance):
- *
- * 1. Draw R = min(64, max(4, ⌈4096/n⌉)) uniformly random states and record |ΔE| of all n single flips of each.
- *    β_start = ln 2 / median of the non-zero |ΔE|: a typical uphill move from a random state is accepted
- *    with probability 1/2.
- * 2. From each of those states, descend greedily (sequential sweeps flipping every variable whose flip
- *    lowers the cost, until a sweep flips none) and record the uphill ΔE > 0 of all single flips at the local
- *    minimum reached. β_end = ln 1000 / (their 10% quantile, nearest rank): the smallest escape steps out of
- *    low-lying states are accepted with probability ~1e−3. For integer costs (CNF) this quantile is the
- *    smallest non-zero |ΔE|, 1, so β_end = ln 1000; for continuous couplings (SK) the quantile stands in for
- *    the minimum, which a finite sample of a continuous distribution would put arbitrarily close to zero.
- * 3. β_end is raised, if need be, to (ln 1000/ln 2)·β_start (the typical random-state uphill move accepted with
- *    probability 1e−3), so β_end > β_start always. Without any non-zero ΔE (no clauses, all J = 0) both
- *    scales are taken as 1.
- *
- * "Non-zero" means above 0.5 for CNF and above the problem's cost tolerance for Ising models.
- * @returns β_start, β_end (1/cost unit) and the rule in words, for the manifest.
+ * Acceptance probability of a typical (median) uphill single flip from a random state at the hot end. At a
+ * random state about half of all single flips go uphill, so with 0.6 for them about 0.5 + 0.5·0.6 = 80% of all
+ * attempts are accepted: the first sweeps wander almost freely and forget the start.
  */
-export function defaultBetaRange(problem: Problem): { betaStart: number; betaEnd: number; rule: string } {
+export const HOT_UPHILL_ACCEPTANCE = 0.6;
+
+/**
+ * Acceptance probability of the smallest uphill step out of a greedy local minimum at the cold end. With it, a
+ * sweep of n = 25 attempts at such a minimum escapes with probability at most 1 − (1 − 0.002)^25 ≈ 5%, so the
+ * last sweeps are practically a greedy descent and a trial ends in (near) a local minimum.
+ */
+export const COLD_ESCAPE_ACCEPTANCE = 0.002;
+
+/** Quantile of the uphill steps at local minima that stands for "the smallest" (robust for continuous couplings). */
+const SMALLEST_STEP_QUANTILE = 0.05;
+
+/**
+ * Default temperature range of a problem: the acceptance-ratio rule, from the instance's own energy scale
+ * (deterministic: the sample comes from a fixed seed, so the range is a pure function of the instance).
+ * A Metropolis flip uphill by ΔE > 0 is accepted with probability exp(−ΔE/T), so the temperature at which a
+ * step ΔE is accepted with probability P is T = ΔE / ln(1/P).
+ *
+ * 1. Draw R = min(64, max(4, ⌈4096/n⌉)) uniformly random states; record the uphill ΔE of all n single flips of
+ *    each. Hot end: T_hot = median uphill ΔE / ln(1/{@link HOT_UPHILL_ACCEPTANCE}).
+ * 2. From each state descend greedily (sequential sweeps flipping every variable whose flip lowers the cost,
+ *    until a sweep flips none) and record the uphill ΔE of all single flips at the local minimum reached. Cold
+ *    end: T_cold = δ / ln(1/{@link COLD_ESCAPE_ACCEPTANCE}), δ = the smallest of these steps, read as their 5%
+ *    quantile (nearest rank): for integer costs (CNF) that is the smallest step, 1; for continuous couplings
+ *    (SK) the sample minimum would sit arbitrarily close to zero and the quantile stands in for it.
+ * 3. T_cold is lowered, if need be, so that T_cold ≤ T_hot·ln(1/0.6)/ln(1/0.002) (the typical uphill move is
+ *    then accepted with probability 0.002 at the cold end), so the range always cools. Without any uphill step
+ *    (no clauses, all J = 0) both steps are taken as 1.
+ *
+ * "Uphill" means ΔE above 0.5 for CNF and above the problem's cost tolerance for Ising models.
+ * @returns the range as inverse temperatures β = 1/T (β_start = 1/T_hot, β_end = 1/T_cold; 1/cost unit), the
+ *   same range as temperatures, and the rule in words, for the manifest.
+ */
+export function defaultBetaRange(problem: Problem): { betaStart: number; betaEnd: number; temperatureHot: number; temperatureCold: number; rule: string } {
   const engine = makeEngine(problem);
   const n = engine.n;
   const eps = problem.kind === "cnf" ? 0.5 : costTolerance(problem);
@@ -190,7 +208,7 @@ export function defaultBetaRange(problem: Problem): { betaStart: number; betaEnd
   for (let r = 0; r < samples; r++) {
     engine.start(rng, -Infinity);
     for (let i = 0; i < n; i++) {
-      const d = Math.abs(engine.delta(i));
+      const d = engine.delta(i);
       if (d > eps) random.push(d);
     }
     // Every flip lowers the cost by more than eps, so the descent ends; the sweep cap only guards the loop.
@@ -209,14 +227,16 @@ export function defaultBetaRange(problem: Problem): { betaStart: number; betaEnd
     }
   }
   const typical = random.length > 0 ? quantile(random, 0.5) : 1;
-  const small = minima.length > 0 ? quantile(minima, 0.1) : typical;
-  const betaStart = Math.LN2 / typical;
-  const betaEnd = Math.max(Math.log(1000) / small, (Math.log(1000) / Math.LN2) * betaStart);
+  const smallest = minima.length > 0 ? quantile(minima, SMALLEST_STEP_QUANTILE) : typical;
+  const hotLog = Math.log(1 / HOT_UPHILL_ACCEPTANCE);
+  const coldLog = Math.log(1 / COLD_ESCAPE_ACCEPTANCE);
+  const betaStart = hotLog / typical;
+  const betaEnd = Math.max(coldLog / smallest, (coldLog / hotLog) * betaStart);
   const rule =
-    `beta_start = ln2/median|dE| over single flips of ${samples} random states (median ${fmt(typical)}); ` +
-    `beta_end = max(ln1000/q10, (ln1000/ln2)*beta_start), q10 = 10% quantile of uphill dE at greedy local minima ` +
-    `of those states (${fmt(small)})`;
-  return { betaStart, betaEnd, rule };
+    `acceptance ratios: T_hot = median uphill dE from ${samples} random states (${fmt(typical)}) / ln(1/${HOT_UPHILL_ACCEPTANCE}); ` +
+    `T_cold = min(5% quantile of uphill dE at their greedy local minima (${fmt(smallest)}) / ln(1/${COLD_ESCAPE_ACCEPTANCE}), ` +
+    `T_hot*ln(1/${HOT_UPHILL_ACCEPTANCE})/ln(1/${COLD_ESCAPE_ACCEPTANCE}))`;
+  return { betaStart, betaEnd, temperatureHot: 1 / betaStart, temperatureCold: 1 / betaEnd, rule };
 }
 
 /** The inverse temperature of each sweep (see {@link AnnealOptions.schedule}). */
@@ -885,14 +905,14 @@ export const annealSolver: TrialsSolver<AnnealSettings> = {
   name: "anneal",
   kind: "trials",
   description: "Metropolis simulated annealing with single flips, one run per sweep count",
-  options: ["sweeps", "schedule", "beta", "trials"],
+  options: ["anneal-sweeps", "anneal-cooling", "anneal-temperature", "trials"],
   runLengthUnit: "sweeps",
   appliesTo: () => null,
   skipReason: () => null,
-  runLengths: (_n, study) => [...(study.options.sweeps as ReadonlyArray<number>)],
+  runLengths: (_n, study) => [...(study.options["anneal-sweeps"] as ReadonlyArray<number>)],
   settings: (study) => ({
-    schedule: study.options.schedule as AnnealSchedule,
-    beta: (study.options.beta as readonly [number, number] | null) ?? null,
+    schedule: study.options["anneal-cooling"] as AnnealSchedule,
+    beta: (study.options["anneal-beta"] as readonly [number, number] | null) ?? null,
   }),
   prepare(problem, settings) {
     if (settings.beta !== null) return settings;

@@ -63,7 +63,8 @@ export type OptionValue = number | string | boolean | null | ReadonlyArray<numbe
 
 /**
  * The resolved study options a solver reads, keyed by the option-table name without the leading dashes
- * (`walk-flips`, `anneal-sweeps`, `anneal-cooling`, …). Filled by the engine from the frozen spec.
+ * (`walk-flips`, `anneal-sweeps`, `anneal-cooling`, `anneal-beta`, `spectral-b`, `spectral-eta`, …). Filled by the
+ * engine from the frozen spec (engine/study.ts `methodOptionsOf`; the anneal range arrives as inverse temperatures).
  */
 export type MethodOptions = Readonly<Record<string, OptionValue>>;
 

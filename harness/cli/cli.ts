@@ -35,6 +35,7 @@ function withOptions(y: Argv, command: CommandName): Argv {
       type: yargsType(o),
       describe: describe(o),
       defaultDescription: shown === undefined ? undefined : String(shown),
+      hidden: o.hidden === true,
       group: `${o.group[0].toUpperCase()}${o.group.slice(1)} options:`,
       requiresArg: o.type !== "boolean",
     });

@@ -25,6 +25,8 @@ export interface OptionSpec {
   readonly name: string;
   /** Older spellings, accepted and hidden from `--help`. */
   readonly aliases?: ReadonlyArray<string>;
+  /** Accepted but not shown by `--help` (an older form kept for one release). */
+  readonly hidden?: boolean;
   readonly type: "number" | "integer" | "string" | "boolean" | "list" | "duration" | "range";
   readonly group: "study" | "family" | "solvers" | "predictors" | "cost model" | "run" | "report" | "output" | "cluster";
   readonly description: string;
@@ -42,6 +44,20 @@ export interface OptionSpec {
 }
 
 const STUDY: ReadonlyArray<CommandName> = ["run", "slurm"];
+
+/**
+ * The annealer's cooling laws, by our names, and the older names still accepted: "equal-ratios" = the inverse
+ * temperature grows by a constant factor per sweep (was "geometric"), "equal-steps" = by a constant step (was
+ * "linear"). The frozen spec keeps the older internal names, so folders begun before the rename resume.
+ */
+export const COOLING_LAWS = ["equal-ratios", "equal-steps"] as const;
+/** Older cooling-law names → the internal schedule names of solvers/anneal.ts. */
+export const COOLING_INTERNAL: Readonly<Record<string, "linear" | "geometric">> = {
+  "equal-ratios": "geometric",
+  "equal-steps": "linear",
+  geometric: "geometric",
+  linear: "linear",
+};
 const INSTANCE: ReadonlyArray<CommandName> = ["run", "slurm", "instance"];
 
 /** The option table. */
@@ -65,8 +81,9 @@ export const OPTIONS = [
   { name: "trials", type: "integer", group: "solvers", default: 200, min: 1, max: 1e9, commands: STUDY, description: "randomised solvers: independent trials per instance and run length" },
   { name: "walk-flips", type: "string", group: "solvers", default: "3n", commands: STUDY, description: "walk: flips per trial before a restart, as K·n (e.g. 3n, Schöning's choice)" },
   { name: "anneal-sweeps", aliases: ["sweeps"], type: "list", group: "solvers", default: "10,30,100,300", unit: "sweeps", commands: STUDY, description: "anneal: sweeps per trial (run lengths), one run per value" },
-  { name: "anneal-cooling", aliases: ["schedule"], type: "string", group: "solvers", default: "geometric", choices: ["linear", "geometric"], commands: STUDY, description: "anneal: how the inverse temperature rises from sweep to sweep" },
-  { name: "anneal-beta", aliases: ["beta"], type: "string", group: "solvers", unit: "1/cost", commands: STUDY, description: "anneal: inverse-temperature range START:END (default: derived from the instance's energy scale)" },
+  { name: "anneal-cooling", aliases: ["schedule"], type: "string", group: "solvers", default: "equal-ratios", choices: COOLING_LAWS, commands: STUDY, description: "anneal: cooling law from sweep to sweep: equal-ratios (each sweep's 1/T a fixed multiple of the last) or equal-steps (1/T rises by equal steps)" },
+  { name: "anneal-temperature", type: "string", group: "solvers", unit: "cost units", commands: STUDY, description: "anneal: temperature range HOT:COLD, hot end first (default: the acceptance-ratio rule on each instance, see README)" },
+  { name: "anneal-beta", aliases: ["beta"], hidden: true, type: "string", group: "solvers", unit: "1/cost", commands: STUDY, description: "anneal: the range as inverse temperatures START:END (older spelling of --anneal-temperature)" },
   { name: "predict", type: "list", group: "predictors", default: "grover,grover-unknown,min-finding,amplified-walk,amplified-anneal", choices: PREDICTOR_NAMES, commands: STUDY, description: "quantum predictors (query counts, never timings)" },
   { name: "spectral-b", aliases: ["b"], type: "number", group: "predictors", default: 0.7, min: 0, commands: ["run", "slurm", "spectral"], description: "spectral: filter strength b" },
   { name: "spectral-b-scan", aliases: ["b-scan"], type: "string", group: "predictors", commands: ["run", "slurm", "spectral"], description: "spectral: scan b over FROM:TO:STEP (overrides --spectral-b)" },

@@ -7,7 +7,7 @@ import { join, resolve } from "node:path";
 import { InputError } from "../errors.js";
 import { familyNamed, folderFamily } from "../families/registry.js";
 import type { Family, FamilyParams, ParamReader } from "../families/types.js";
-import { optionSpec, type OptionSpec } from "./options.js";
+import { COOLING_INTERNAL, COOLING_LAWS, optionSpec, type OptionSpec } from "./options.js";
 import type { StudySpec } from "../engine/study.js";
 import { sizeOf } from "../model/problem.js";
 import { PREDICTOR_NAMES, predictorNamed } from "../predict/registry.js";
@@ -176,9 +176,21 @@ export function resolveStudy(argv: Argv): StudySpec {
     if (!Number.isInteger(s)) throw new InputError(`--anneal-sweeps: '${s}' is not a whole number`);
     return s;
   });
-  const schedule = String(argv["anneal-cooling"] ?? spec("anneal-cooling").default);
-  if (schedule !== "linear" && schedule !== "geometric") throw new InputError(`--anneal-cooling: '${schedule}' is not linear or geometric`);
+  const cooling = String(argv["anneal-cooling"] ?? spec("anneal-cooling").default);
+  const schedule = COOLING_INTERNAL[cooling];
+  if (schedule === undefined) throw new InputError(`--anneal-cooling: '${cooling}' is not ${COOLING_LAWS.join(" or ")}`);
   let beta: [number, number] | null = null;
+  if (argv["anneal-temperature"] !== undefined && argv["anneal-beta"] !== undefined) {
+    throw new InputError(`--anneal-temperature: give the range once (not also as --anneal-beta/--beta)`);
+  }
+  if (argv["anneal-temperature"] !== undefined) {
+    const text = String(argv["anneal-temperature"]);
+    const parts = text.split(":").map(Number);
+    if (parts.length !== 2 || !parts.every((x) => Number.isFinite(x) && x > 0) || parts[1] > parts[0]) {
+      throw new InputError(`--anneal-temperature: '${text}' is not HOT:COLD with HOT ≥ COLD > 0 (hot end first)`);
+    }
+    beta = [1 / parts[0], 1 / parts[1]];
+  }
   if (argv["anneal-beta"] !== undefined) {
     const parts = String(argv["anneal-beta"]).split(":").map(Number);
     if (parts.length !== 2 || !parts.every((x) => Number.isFinite(x) && x > 0) || parts[1] < parts[0]) {

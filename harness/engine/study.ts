@@ -118,11 +118,11 @@ export function cellsOfInstance(spec: StudySpec, inst: InstanceRef): Cell[] {
 export function methodOptionsOf(spec: StudySpec): MethodOptions {
   return {
     "walk-flips": spec.walkFlipsPerVariable,
-    sweeps: spec.sweeps,
-    schedule: spec.schedule,
-    beta: spec.beta,
-    b: spec.spectral.bValues,
-    eta: spec.spectral.eta,
+    "anneal-sweeps": spec.sweeps,
+    "anneal-cooling": spec.schedule,
+    "anneal-beta": spec.beta,
+    "spectral-b": spec.spectral.bValues,
+    "spectral-eta": spec.spectral.eta,
   };
 }
 

@@ -46,12 +46,12 @@ export function computeSpectral(problem: Problem, optimum: number | null, b: num
 export const spectralPredictor: Predictor = {
   name: "spectral",
   description: "two-stage spectral method (arXiv:2212.01513): exact Lanczos numerics of the filtered Hamiltonian",
-  options: ["b", "b-scan", "eta"],
+  options: ["spectral-b", "spectral-b-scan", "spectral-eta"],
   appliesTo: () => null,
   cell: {
     param: "b",
-    params: (options) => [...(options.b as ReadonlyArray<number>)],
+    params: (options) => [...(options["spectral-b"] as ReadonlyArray<number>)],
     maxSize: (_kind, flipSymmetric) => Math.min(COST_VECTOR_MAX, lanczosMaxN(flipSymmetric ? "symmetric" : "all")),
-    run: (problem, input) => computeSpectral(problem, input.optimum, input.param, Number(input.options.eta)),
+    run: (problem, input) => computeSpectral(problem, input.optimum, input.param, Number(input.options["spectral-eta"])),
   },
 };
