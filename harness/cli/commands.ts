@@ -1,6 +1,7 @@
 /**
  * What each CLI command does, on typed inputs. cli.ts parses; this file runs the harness and prints.
  */
+import { computeGroundTruth, type GroundTruth } from "../engine/ground-truth.js";
 import { availableParallelism } from "node:os";
 import { chmodSync, mkdirSync, readFileSync } from "node:fs";
 import { fileURLToPath } from "node:url";
@@ -21,7 +22,6 @@ import type { Problem } from "../model/problem.js";
 import { costTolerance, sizeOf } from "../model/problem.js";
 import { WorkerPool } from "../engine/pool.js";
 import { groundTruthSolver } from "../../solvers/registry.js";
-import type { TruthSliceAnswer } from "../engine/tasks.js";
 import { canonicalParams } from "../families/params.js";
 import { FAMILY_NAMES, defaultFor, resolvedOptions } from "./options.js";
 import { formatComparison } from "../report/paper.js";
@@ -109,14 +109,14 @@ export async function solve(argv: Args): Promise<number> {
   const stop = new Int32Array(new SharedArrayBuffer(8));
   const ctx = { family: problem.kind === "cnf" ? "cnf" : "ising", params: {}, masterSeed: "", n, index: 0, file: resolve(file) };
   const start = process.hrtime.bigint();
-  let answers: TruthSliceAnswer[];
+  let truth: GroundTruth;
   try {
-    answers = await Promise.all(exact.plan(problem, workers).map((part) => pool.run<TruthSliceAnswer>({ type: "truth-slice", ctx, solver: exact.name, part, stop })));
+    truth = await computeGroundTruth(pool, problem, ctx, workers, stop);
   } finally {
     await pool.close();
   }
   const wall = Number(process.hrtime.bigint() - start);
-  const r = exact.merge(answers.map((a) => a.result), costTolerance(problem));
+  const r = truth.merged;
   const result =
     problem.kind === "cnf"
       ? { file, variables: n, clauses: problem.cnf.offsets.length - 1, optimum: r.optimum, degeneracy: r.degeneracy, satisfiable: r.optimum === 0, assignments: r.assignments, wall_ns: wall, workers }

@@ -8,14 +8,15 @@ import { join } from "node:path";
 import type { InstanceContext } from "../families/registry.js";
 import { JournalWriter, readJournal, type JournalRecord, type RunRecord, type SpectralRecord, type TruthRecord } from "./journal.js";
 import { WorkerPool } from "./pool.js";
+import { StopControl } from "./stop.js";
+import { computeGroundTruth } from "./ground-truth.js";
 import type { Progress } from "./progress.js";
 import { OUT_FILES, prepareOutput } from "./output-folder.js";
 import type { RunSummary } from "./run-summary.js";
 import { type Cell, type InstanceRef, type StudySpec, cellsOfInstance, instancesOf, methodOptionsOf, shardInstances, solverStudyOf } from "./study.js";
-import type { PredictAnswer, TrialsAnswer, TruthSliceAnswer } from "./tasks.js";
-import { groundTruthSolver, trialsSolverNamed } from "../../solvers/registry.js";
+import type { PredictAnswer, TrialsAnswer } from "./tasks.js";
+import { trialsSolverNamed } from "../../solvers/registry.js";
 import { familyNamed, materialise } from "../families/registry.js";
-import { costTolerance, sizeOf } from "../model/problem.js";
 
 /** How a run is carried out (not part of the study's identity). */
 export interface RunOptions {
@@ -32,8 +33,7 @@ export interface RunOptions {
   readonly graceMs: number;
 }
 
-/** How often the cell limit is checked (ms); a cell may overrun its limit by about this much. */
-export const LIMIT_POLL_MS = 25;
+export { LIMIT_POLL_MS } from "./stop.js";
 
 /** Runs (or resumes) a study. Resolves when every cell is journalled, skipped by the budget, or interrupted. */
 export async function runStudy(spec: StudySpec, options: RunOptions): Promise<RunSummary> {
@@ -49,37 +49,9 @@ export async function runStudy(spec: StudySpec, options: RunOptions): Promise<Ru
   const sizes = [...new Set(mine.map((i) => i.n))].sort((a, b) => a - b);
   const cellsTotal = mine.reduce((s, inst) => s + cellsOfInstance(spec, inst).length, 0);
 
-  const state = {
-    done: 0,
-    resumed: 0,
-    errors: 0,
-    censored: 0,
-    skipped: 0,
-    stopping: false as boolean,
-    signal: null as NodeJS.Signals | null,
-    deadline: options.budgetMs === null ? Infinity : Date.now() + options.budgetMs,
-  };
-  const running = new Set<Int32Array>();
-  const stopAll = (): void => {
-    for (const flag of running) Atomics.store(flag, 0, 1);
-  };
-  let budgetTimer: NodeJS.Timeout | null = null;
-  if (options.budgetMs !== null) {
-    budgetTimer = setTimeout(() => {
-      state.stopping = true;
-      stopAll();
-    }, options.budgetMs);
-  }
-  let graceTimer: NodeJS.Timeout | null = null;
-  const onSignal = (signal: NodeJS.Signals): void => {
-    if (state.signal) return;
-    state.signal = signal;
-    state.stopping = true;
-    options.progress.note(`${signal}: no new cells; running ones get ${options.graceMs / 1000} s to finish`);
-    graceTimer = setTimeout(stopAll, options.graceMs);
-  };
-  process.on("SIGINT", onSignal);
-  process.on("SIGTERM", onSignal);
+  const state = { done: 0, resumed: 0, errors: 0, censored: 0, skipped: 0 };
+  const stop = new StopControl({ budgetMs: options.budgetMs, cellLimitMs: options.cellLimitMs, graceMs: options.graceMs, note: (line) => options.progress.note(line) });
+  const withStopFlag = <T>(body: (flag: Int32Array) => Promise<T>): Promise<T> => stop.withStopFlag(body);
 
   const pool = new WorkerPool(options.workers);
   const record = (r: JournalRecord): void => {
@@ -89,35 +61,6 @@ export async function runStudy(spec: StudySpec, options: RunOptions): Promise<Ru
     if (r.status === "error") state.errors++;
     if (r.status === "censored") state.censored++;
     options.progress.tick(r.key);
-  };
-
-  /**
-   * A fresh stop flag for one cell, raised by the cell limit, the budget or a signal's grace period. Element 1
-   * is set by the worker when it starts computing, so the cell limit counts computing time, not time spent
-   * waiting in the pool's queue (checked every {@link LIMIT_POLL_MS} ms).
-   */
-  const started = new Map<Int32Array, number>();
-  const limitTimer =
-    options.cellLimitMs === null
-      ? null
-      : setInterval(() => {
-          const now = Date.now();
-          for (const flag of running) {
-            if (Atomics.load(flag, 1) === 0) continue;
-            const t0 = started.get(flag);
-            if (t0 === undefined) started.set(flag, now);
-            else if (now - t0 >= (options.cellLimitMs as number)) Atomics.store(flag, 0, 1);
-          }
-        }, LIMIT_POLL_MS);
-  const withStopFlag = async <T>(body: (flag: Int32Array) => Promise<T>): Promise<T> => {
-    const flag = new Int32Array(new SharedArrayBuffer(8));
-    running.add(flag);
-    try {
-      return await body(flag);
-    } finally {
-      running.delete(flag);
-      started.delete(flag);
-    }
   };
 
   const problemKind = familyNamed(spec.family).kind;
@@ -135,12 +78,7 @@ export async function runStudy(spec: StudySpec, options: RunOptions): Promise<Ru
         // The slice plan needs the problem's kind and symmetry only; generating in the main thread is cheap
         // except for --satisfiable/--unique, which the first worker answer would repeat anyway.
         const problem = materialise(ctxOf(inst)).problem;
-        const exact = groundTruthSolver(problem.kind, false, sizeOf(problem));
-        const parts = exact.plan(problem, options.workers);
-        const answers = await Promise.all(
-          parts.map((part) => pool.run<TruthSliceAnswer>({ type: "truth-slice", ctx: ctxOf(inst), solver: exact.name, part, stop: flag })),
-        );
-        const merged = exact.merge(answers.map((a) => a.result), costTolerance(problem));
+        const { merged, answers } = await computeGroundTruth(pool, problem, ctxOf(inst), options.workers, flag);
         const wall = answers.reduce((s, a) => s + a.wall_ns, 0);
         const status = merged.complete ? "ok" : "censored";
         return {
@@ -204,7 +142,7 @@ export async function runStudy(spec: StudySpec, options: RunOptions): Promise<Ru
     const todo = cells.filter((c) => !done.has(c.key));
     state.resumed += cells.length - todo.length;
     if (todo.length === 0) return;
-    if (state.stopping) {
+    if (stop.stopping) {
       state.skipped += todo.length;
       return;
     }
@@ -216,7 +154,7 @@ export async function runStudy(spec: StudySpec, options: RunOptions): Promise<Ru
     const rest = todo.filter((c) => c.kind !== "truth");
     await Promise.all(
       rest.map(async (cell) => {
-        if (state.stopping) {
+        if (stop.stopping) {
           state.skipped++;
           return;
         }
@@ -231,25 +169,21 @@ export async function runStudy(spec: StudySpec, options: RunOptions): Promise<Ru
   try {
     for (const n of sizes) {
       const ofSize = mine.filter((i) => i.n === n);
-      if (!state.stopping && Date.now() < state.deadline) await Promise.all(ofSize.map(runInstance));
+      if (!stop.stopping && Date.now() < stop.deadline) await Promise.all(ofSize.map(runInstance));
       else for (const inst of ofSize) await runInstance(inst);
       const complete = ofSize.every((inst) => cellsOfInstance(spec, inst).every((c) => done.has(c.key) && done.get(c.key)?.status !== "censored"));
       (complete ? completeSizes : incompleteSizes).push(n);
       options.progress.sizeDone(n, complete);
     }
   } finally {
-    if (budgetTimer) clearTimeout(budgetTimer);
-    if (limitTimer) clearInterval(limitTimer);
-    if (graceTimer) clearTimeout(graceTimer);
-    process.off("SIGINT", onSignal);
-    process.off("SIGTERM", onSignal);
+    stop.dispose();
     journal.close();
     options.progress.stop();
     await pool.close();
   }
   return {
     cellsTotal, cellsDone: state.done, cellsResumed: state.resumed, errors: state.errors, censored: state.censored,
-    skipped: state.skipped, completeSizes, incompleteSizes, interrupted: state.signal, tornJournalLine: previous.tornLine,
+    skipped: state.skipped, completeSizes, incompleteSizes, interrupted: stop.signal, tornJournalLine: previous.tornLine,
   };
 }
 
