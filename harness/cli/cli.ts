@@ -7,7 +7,7 @@ import yargs, { type Argv, type Options } from "yargs";
 import { hideBin } from "yargs/helpers";
 import { EXIT, InputError } from "../errors.js";
 import { optionsOf, type CommandName, type OptionSpec } from "./options.js";
-import * as commands from "./commands.js";
+import * as commands from "./commands/index.js";
 
 function yargsType(o: OptionSpec): Options["type"] {
   if (o.type === "boolean") return "boolean";
