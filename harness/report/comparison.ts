@@ -14,6 +14,7 @@
  */
 import { findCrossover, type CrossoverStatus, DEFAULT_CROSSOVER_RANGE } from "../stats/crossover.js";
 import type { FitRow, MeasureBasis } from "./fits.js";
+import { PREDICTORS } from "../predict/registry.js";
 
 /**
  * Quantum seconds per query for a family, predictor and size (Toffolis per query × seconds per Toffoli), as
@@ -166,8 +167,13 @@ const CLASSICAL_MEASURES: Readonly<Record<MeasureBasis, ReadonlyArray<string>>> 
   time: ["tts_ns", "wall_ns"],
 };
 
-/** The predictor an amplified solver's name stands for ("amplified-walk" → "walk"), else null. */
+/**
+ * The solver a predictor amplifies ("amplified-walk" → "walk"), as the predictor registry declares it; for a
+ * name the registry does not know (a journal of another build), the `amplified-SOLVER` naming; else null.
+ */
 export function amplifiedSource(predictor: string): string | null {
+  const registered = PREDICTORS.find((p) => p.name === predictor);
+  if (registered !== undefined) return registered.amplifies ?? null;
   return predictor.startsWith("amplified-") ? predictor.slice("amplified-".length) : null;
 }
 

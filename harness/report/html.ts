@@ -3,7 +3,7 @@
  * with its footnote marks, the caveats, every rule that excluded a size or withheld a verdict, the settings, and
  * relative links to the CSV files beside it. No script, no style sheet or font from the network.
  */
-import type { StudySpec } from "../study.js";
+import type { StudySpec } from "../engine/study.js";
 import type { SizeRow } from "./sizes.js";
 import type { FitRow } from "./fits.js";
 import { SPEEDUP_RULE, type ComparisonRow } from "./comparison.js";

@@ -16,6 +16,7 @@
  *   re-made inside the bootstrap.
  */
 import type { PredictionRow, RunRow } from "../types.js";
+import { PREDICTORS } from "../predict/registry.js";
 import { censoredQuantile } from "../stats/censoring.js";
 import type { SizeRunLengths } from "../stats/run-length-edge.js";
 
@@ -181,13 +182,15 @@ export function collect(runs: ReadonlyArray<RunRow>, predictions: ReadonlyArray<
 }
 
 /**
- * The "run length" of a prediction row: the classical run length an amplified solver amplifies, or b for the
- * spectral method (one row per b in a scan); null for predictors with a single setting.
+ * The "run length" of a prediction row: the classical run length an amplified solver amplifies, or the cell
+ * parameter of a predictor with worker-side numerics (b for the spectral method, one row per b in a scan, as the
+ * predictor registry declares it); null for predictors with a single setting.
  */
 export function predictionRunLength(row: PredictionRow): number | null {
   if (typeof row.run_length === "number") return row.run_length;
-  if (row.predictor === "spectral" && typeof row.b === "number") return row.b;
-  return null;
+  const param = PREDICTORS.find((p) => p.name === row.predictor)?.cell?.param;
+  const value = param === undefined ? undefined : (row as Record<string, unknown>)[param];
+  return typeof value === "number" ? value : null;
 }
 
 export function sampleOf(group: Group): { values: number[]; censored: boolean[] } {

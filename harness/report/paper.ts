@@ -5,10 +5,10 @@
  * table.md, the figures work-FAMILY.svg, time-FAMILY.svg, instances-FAMILY.svg, and the study page report.html.
  */
 import { join } from "node:path";
-import type { StudySpec } from "../study.js";
+import type { StudySpec } from "../engine/study.js";
 import type { Tables } from "./tables.js";
 import { writeCsv } from "./csv.js";
-import { writeFileAtomic } from "../files.js";
+import { writeFileAtomic } from "../engine/files.js";
 import { SIZE_COLUMNS, summariseSizes, type SizeRow } from "./sizes.js";
 import { DEFAULT_FIT_FROM_RULE, FIT_COLUMNS, fitStudy, type FitRow } from "./fits.js";
 import { COMPARISON_COLUMNS, compareMethods, type ComparisonRow } from "./comparison.js";
@@ -19,6 +19,8 @@ import { comparisonLatex } from "./latex.js";
 import { comparisonMarkdown } from "./markdown.js";
 import { comparisonLegend, comparisonTerminalTable } from "./terminal-table.js";
 import { secondsPerQuery, type FamilyShape } from "../predict/cost-table.js";
+import { familyNamed } from "../families/registry.js";
+import { OUT_FILES, figureFile, type FigureKind } from "../engine/output-folder.js";
 
 /** The paper outputs, also returned for printing. */
 export interface PaperOutputs {
@@ -68,16 +70,16 @@ export async function writePaperOutputs(spec: StudySpec, out: string, tables: Ta
   const perQuery = secondsPerQuery(spec, familyShape(spec, tables), (predictor, n) => stepsPerTrial(spec, sizes, predictor, n));
   const comparison = compareMethods(fits, perQuery, { parallelism: spec.costModel.classicalParallelism });
   const line = settingsLine(spec);
-  writeCsv(join(out, "sizes.csv"), sizes, SIZE_COLUMNS as string[]);
-  writeCsv(join(out, "fits.csv"), fits, FIT_COLUMNS as string[]);
-  writeCsv(join(out, "comparison.csv"), comparison, COMPARISON_COLUMNS as string[]);
-  writeFileAtomic(join(out, "table.tex"), comparisonLatex(comparison, line));
-  writeFileAtomic(join(out, "table.md"), comparisonMarkdown(comparison, line));
-  const figures: Record<string, string> = {};
+  writeCsv(join(out, OUT_FILES.sizes), sizes, SIZE_COLUMNS as string[]);
+  writeCsv(join(out, OUT_FILES.fits), fits, FIT_COLUMNS as string[]);
+  writeCsv(join(out, OUT_FILES.comparison), comparison, COMPARISON_COLUMNS as string[]);
+  writeFileAtomic(join(out, OUT_FILES.latex), comparisonLatex(comparison, line));
+  writeFileAtomic(join(out, OUT_FILES.markdown), comparisonMarkdown(comparison, line));
+  const figures: Partial<Record<FigureKind, string>> = {};
   if (sizes.length > 0) {
     const ctx: FigureContext = {
       family: spec.family,
-      nCounts: spec.family === "ksat" || spec.family === "cnf" ? "variables" : "spins",
+      nCounts: familyNamed(spec.family).kind === "cnf" ? "variables" : "spins",
       parallelism: spec.costModel.classicalParallelism,
       secondsPerQuery: perQuery,
       settings: line,
@@ -85,9 +87,9 @@ export async function writePaperOutputs(spec: StudySpec, out: string, tables: Ta
     figures.work = await workFigureSvg(sizes, fits, ctx);
     figures.time = await timeFigureSvg(sizes, fits, comparison, ctx);
     figures.instances = await instancesFigureSvg(tables, sizes, ctx);
-    for (const [name, svg] of Object.entries(figures)) writeFileAtomic(join(out, `${name}-${spec.family}.svg`), svg);
+    for (const [kind, svg] of Object.entries(figures)) writeFileAtomic(join(out, figureFile(kind as FigureKind, spec.family)), svg);
   }
-  writeFileAtomic(join(out, "report.html"), studyPage({ spec, sizes, fits, comparison, figures, settings: line }));
+  writeFileAtomic(join(out, OUT_FILES.studyPage), studyPage({ spec, sizes, fits, comparison, figures, settings: line }));
   return { sizes, fits, comparison, settings: line };
 }
 
@@ -97,41 +99,9 @@ export function formatComparison(paper: PaperOutputs): string {
   return `${comparisonTerminalTable(paper.comparison)}\n${comparisonLegend(paper.comparison, paper.settings ?? "")}`;
 }
 
-/**
- * Size facts for the Toffoli counts: clauses per variable for CNF (the density, or the folder's mean), and the
- * number of terms at any n for spin families (the family's formula; for coupling files, the largest measured
- * size's mean scaled as n^order, since the crossover may lie beyond the measured range).
- */
+/** Size facts for the Toffoli counts, as the family declares them (families/*.ts `costShape`). */
 function familyShape(spec: StudySpec, tables: Tables): FamilyShape {
-  const rows = tables.instances;
-  const mean = (xs: number[]): number => (xs.length ? xs.reduce((a, b) => a + b, 0) / xs.length : 0);
-  if (spec.family === "ksat" || spec.family === "cnf") {
-    const density = spec.family === "ksat" ? Number(spec.familyParams.density) : mean(rows.map((r) => Number(r.clauses) / r.n));
-    const k = spec.family === "ksat" ? Number(spec.familyParams.k) : 3;
-    return { kind: "ksat", clausesPerVariable: density, k, termsAt: () => 0, order: 0 };
-  }
-  const binom = (n: number, p: number): number => {
-    let c = 1;
-    for (let i = 0; i < p; i++) c = (c * (n - i)) / (i + 1);
-    return c;
-  };
-  switch (spec.family) {
-    case "sk":
-      return { kind: "ising", clausesPerVariable: 0, k: 0, termsAt: (n) => binom(n, 2), order: 2 };
-    case "pspin": {
-      const p = Number(spec.familyParams.p);
-      return { kind: "ising", clausesPerVariable: 0, k: 0, termsAt: (n) => binom(n, p), order: p };
-    }
-    case "maxcut": {
-      const d = Number(spec.familyParams.degree);
-      return { kind: "ising", clausesPerVariable: 0, k: 0, termsAt: (n) => (n * d) / 2, order: 2 };
-    }
-    default: {
-      const largest = rows.reduce((m, r) => Math.max(m, r.n), 1);
-      const terms = mean(rows.filter((r) => r.n === largest).map((r) => Number(r.terms))) || 1;
-      return { kind: "ising", clausesPerVariable: 0, k: 0, termsAt: (n) => terms * (n / largest) ** 2, order: 2 };
-    }
-  }
+  return familyNamed(spec.family).costShape(spec.familyParams, tables.instances);
 }
 
 /**

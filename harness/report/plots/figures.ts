@@ -13,7 +13,7 @@
 import { sampleRankCorrelation } from "simple-statistics";
 import type { SizeRow } from "../sizes.js";
 import type { FitRow } from "../fits.js";
-import type { ComparisonRow } from "../comparison.js";
+import { amplifiedSource, type ComparisonRow } from "../comparison.js";
 import type { Measure } from "../observations.js";
 import type { Tables } from "../tables.js";
 import { styleOf } from "./style.js";
@@ -170,7 +170,7 @@ const WORK_UNIT = (m: Measure): string =>
 /** work-FAMILY.svg (see the module comment). */
 export async function workFigureSvg(sizes: ReadonlyArray<SizeRow>, fits: ReadonlyArray<FitRow>, ctx: FigureContext): Promise<string> {
   const rows = sizes.filter((r) => r.family === ctx.family && r.optimal_run_length);
-  const series = pickSeries(rows, WORK_SOLVER, (m) => (m.startsWith("amplified-") ? "steps" : "queries"), WORK_UNIT);
+  const series = pickSeries(rows, WORK_SOLVER, (m) => (amplifiedSource(m) !== null ? "steps" : "queries"), WORK_UNIT);
   const points = series.flatMap((s) => seriesPoints(rows, s, (v) => v));
   const lines: Datum[] = [];
   for (const s of series) {
@@ -293,8 +293,9 @@ export async function instancesFigureSvg(tables: Tables, sizes: ReadonlyArray<Si
       const pts: Datum[] = [];
       for (const p of tables.predictions) {
         if (p.predictor !== predictor || p.n !== n || p.status !== "ok" || p.queries === null || !(p.queries > 0)) continue;
-        if (predictor === "spectral" && p.b_best === false) continue;
-        if (chosen !== undefined && predictor.startsWith("amplified-") && p.run_length !== chosen.run_length) continue;
+        // A scan's rows (the spectral b): only the one marked best; amplified solvers: the optimal run length.
+        if (p.b_best === false) continue;
+        if (chosen !== undefined && amplifiedSource(predictor) !== null && p.run_length !== chosen.run_length) continue;
         const c = classical.get(p.instance);
         if (c === undefined) continue;
         const q = p.queries * ctx.secondsPerQuery(ctx.family, predictor, n);

@@ -7,15 +7,15 @@
  * of both, with its interval, and whether the intervals overlap (a referee's question), no ground-truth check.
  */
 import { join } from "node:path";
-import { InputError } from "./errors.js";
-import { readJournal, type JournalRecord, type TruthRecord } from "./journal.js";
-import type { StudySpec } from "./study.js";
-import { readStudyFolder } from "./resolve.js";
-import { buildTables } from "./report/tables.js";
-import { fitStudy, type FitRow } from "./report/fits.js";
-import { REPORT_BOOTSTRAP_SEED } from "./report/paper.js";
-import type { RunRow } from "./types.js";
-import { quantileOf } from "./stats/quantiles.js";
+import { InputError } from "../errors.js";
+import { readJournal, type JournalRecord, type TruthRecord } from "../engine/journal.js";
+import type { StudySpec } from "../engine/study.js";
+import { OUT_FILES, readStudyFolder } from "../engine/output-folder.js";
+import { buildTables } from "./tables.js";
+import { fitStudy, type FitRow } from "./fits.js";
+import { REPORT_BOOTSTRAP_SEED } from "./paper.js";
+import type { RunRow } from "../types.js";
+import { quantileOf } from "../stats/quantiles.js";
 
 /** One finding of a comparison. */
 export interface Finding {
@@ -39,8 +39,8 @@ export function compareFolders(oldDir: string, newDir: string, tolerance: number
   if (JSON.stringify(a.spec) !== JSON.stringify(b.spec) && !seedOnly) {
     throw new InputError(`${newDir}: is not the same study as ${oldDir} (spec.json differs beyond the seed); compare runs of one study`);
   }
-  const oldRecords = readJournal(join(oldDir, "journal.jsonl")).records;
-  const newRecords = readJournal(join(newDir, "journal.jsonl")).records;
+  const oldRecords = readJournal(join(oldDir, OUT_FILES.journal)).records;
+  const newRecords = readJournal(join(newDir, OUT_FILES.journal)).records;
   const findings: Finding[] = [];
 
   if (seedOnly) return seedToSeed(a.spec, b.spec, oldRecords, newRecords);
