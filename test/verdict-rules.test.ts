@@ -4,6 +4,7 @@ import { applyFloor } from "../harness/stats/floor.js";
 import { compareGrowthModels } from "../harness/stats/growth-model.js";
 import { runLengthEdges } from "../harness/stats/run-length-edge.js";
 import { fitStudy } from "../harness/report/fits.js";
+import { summariseSizes } from "../harness/report/sizes.js";
 import { compareMethods } from "../harness/report/comparison.js";
 import type { PredictionRow, RunRow } from "../harness/types.js";
 
@@ -135,6 +136,36 @@ describe("run-length edges (Rønnow et al., Science 345, 420 (2014))", () => {
     const all = [size(12, 1), size(14, 3), size(16, 30), size(18, 100)];
     expect(runLengthEdges(all).status).toBe("lower bound");
     expect(runLengthEdges(all, [16, 18]).status).toBe("estimate");
+  });
+
+  it("in the report: an amplified run length where trials never succeeded (p = 0) stays on the grid and counts as censored", () => {
+    // Hand-made amplified-solver rows at run lengths 1, 3, 10 (n = 14..22, 6 instances): at run length 1 four
+    // instances never succeeded (p = 0: no finite cost, amplify.ts gives queries and steps null) and two did
+    // cheaply (10 steps); at 3 and 10 every instance succeeded (3: 100·2^(0.1 n) steps, 10: twice that). The p = 0
+    // instances are lower bounds, so the median at 1 is undefined (4 of 6 censored) and 3 is the optimum, inside
+    // the grid [1, 10]: an estimate. Dropping them instead would take the median over the 2 cheap instances,
+    // choose run length 1 and call every size a grid edge.
+    const predictions: PredictionRow[] = [];
+    for (let n = 14; n <= 22; n += 2) {
+      for (let i = 0; i < 6; i++) {
+        const row = (runLength: number, p: number, steps: number | null): PredictionRow => ({
+          family: "sk", n, instance: i, predictor: "amplified-anneal", status: "ok", run_length: runLength, p,
+          queries: steps === null ? null : steps / runLength, queries_log2: null, queries_low: steps === null ? 5 : steps / runLength,
+          queries_high: null, steps, steps_low: steps, steps_high: null,
+        } as PredictionRow);
+        predictions.push(row(1, i < 4 ? 0 : 0.3, i < 4 ? null : 10));
+        predictions.push(row(3, 0.2, 100 * 2 ** (0.1 * n)));
+        predictions.push(row(10, 0.4, 200 * 2 ** (0.1 * n)));
+      }
+    }
+    const sizes = summariseSizes([], predictions, { resamples: 200 });
+    const atOne = sizes.find((r) => r.method === "amplified-anneal" && r.measure === "steps" && r.n === 18 && r.run_length === 1)!;
+    expect(atOne.censored).toBe(4);
+    expect(atOne.median).toBeNull();
+    expect(sizes.filter((r) => r.method === "amplified-anneal" && r.measure === "steps" && r.optimal_run_length).map((r) => r.run_length)).toEqual([3, 3, 3, 3, 3]);
+    const fit = fitStudy([], predictions, { resamples: 200, quantiles: [0.5], fitFrom: 14 }).find((f) => f.method === "amplified-anneal" && f.measure === "steps")!;
+    expect(fit.exponent_status).toBe("estimate");
+    expect(fit.exponent!).toBeCloseTo(0.1, 10); // the exact 2^(0.1 n) of the rows at run length 3
   });
 
   it("one run length: not scanned", () => {

@@ -88,7 +88,7 @@ export const cellKey = (family: string, kind: MethodKind, method: string, runLen
 export const seriesKey = (family: string, kind: MethodKind, method: string): string => [family, kind, method].join(sep);
 
 function lowColumn(measure: Measure): string | null {
-  return measure === "tts_ns" ? "tts_ns_low" : measure === "tts_work" ? "tts_work_low" : measure === "queries" ? "queries_low" : null;
+  return measure === "tts_ns" ? "tts_ns_low" : measure === "tts_work" ? "tts_work_low" : measure === "queries" ? "queries_low" : measure === "steps" ? "steps_low" : null;
 }
 
 export function collect(runs: ReadonlyArray<RunRow>, predictions: ReadonlyArray<PredictionRow>): Collected {
@@ -113,6 +113,10 @@ export function collect(runs: ReadonlyArray<RunRow>, predictions: ReadonlyArray<
     let censored = rowCensored;
     // A TTS from a row without success is a lower bound (p = 0 gives an infinite or bound-only TTS).
     if ((measure === "tts_ns" || measure === "tts_work") && (row["successes"] === 0 || row["p"] === 0)) censored = true;
+    // Likewise an amplified trial that never succeeded (p = 0): its cost is unbounded, at least its low end; the
+    // instance counts as censored instead of dropping out of the median (which would bias it low) and the run
+    // length stays on the scanned grid (the run-length edge rule needs it).
+    if ((measure === "queries" || measure === "steps") && row["p"] === 0 && !Number.isFinite(value)) censored = true;
     if (!Number.isFinite(value) && (censored || value === Infinity)) {
       censored = true;
       const lowName = lowColumn(measure);
@@ -245,7 +249,11 @@ export function optimalRunLengths(
     let best: { key: string; value: number; defined: boolean; runLength: number } | null = null;
     for (const { runLength, key } of list) {
       const group = measure === undefined ? undefined : c.groups.get(key + sep + measure);
-      if (group === undefined || group.obs.size === 0) continue;
+      if (group === undefined || group.obs.size === 0) {
+        // Scanned but without a value (every instance missing or an error): still a point of the grid.
+        if (runLength !== null) points.push({ runLength, tts: null });
+        continue;
+      }
       const s = sampleOf(group);
       const med = censoredQuantile(s.values, s.censored, 0.5);
       const defined = med.value !== null;
