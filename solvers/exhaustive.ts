@@ -9,7 +9,7 @@ import { costTolerance, sizeOf } from "../harness/model/problem.js";
 import { hasFlipSymmetry } from "../harness/model/ising.js";
 import { CNF_EXACT_MAX_VARIABLES, exhaustiveCnfSlice } from "./exhaustive-cnf.js";
 import { SPIN_EXACT_MAX, exhaustiveSpinSlice } from "./exhaustive-spin.js";
-import type { ExactResult, StopFlag } from "./types.js";
+import type { ExactResult, ExactSolver, StopFlag } from "./types.js";
 
 /** One slice of the enumeration: the top `prefixBits` bits of z fixed to `prefix`. */
 export interface Slice {
@@ -64,11 +64,26 @@ export function mergeExact(results: ReadonlyArray<ExactResult>, tolerance: numbe
   for (const r of results) if (r.optimum < optimum) optimum = r.optimum;
   let degeneracy = 0;
   let assignments = 0;
+  let evaluated = 0;
   let complete = true;
   for (const r of results) {
     if (r.degeneracy > 0 && Math.abs(r.optimum - optimum) <= tolerance) degeneracy += r.degeneracy;
     assignments += r.assignments;
+    evaluated += r.evaluated;
     complete &&= r.complete;
   }
-  return { optimum, degeneracy, assignments, complete };
+  return { optimum, degeneracy, assignments, evaluated, complete };
 }
+
+/** Exhaustive enumeration on the solver registry: the ground truth of every instance within its limit. */
+export const exhaustiveSolver: ExactSolver<Slice> = {
+  name: "exhaustive",
+  kind: "exact",
+  description: "exact optimum and degeneracy by enumerating all 2^n configurations (always runs: the ground truth)",
+  maxSize: (kind) => (kind === "cnf" ? CNF_EXACT_MAX_VARIABLES : SPIN_EXACT_MAX),
+  plan: planSlices,
+  run: exhaustiveSlice,
+  // Every variable fixed (one configuration): only the kernel's set-up and one evaluation remain.
+  leastPart: (problem, slice) => ({ prefixBits: sizeOf(problem), prefix: 0, mirror: slice.mirror }),
+  merge: mergeExact,
+};

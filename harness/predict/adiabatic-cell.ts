@@ -5,8 +5,9 @@
 import { InputError } from "../errors.js";
 import type { Problem } from "../model/problem.js";
 import { DEFAULT_ADIABATIC_OPTIONS, adiabaticGap } from "./adiabatic.js";
-import { defaultSpectralMemory, memoryRefusal } from "./numerics/memory.js";
-import { buildSectorCost } from "./numerics/sector-cost.js";
+import { allowedMemory, cellMemory, defaultSpectralMemory, memoryRefusal } from "./numerics/memory.js";
+import { SECTOR_COST_MAX_N, buildSectorCost } from "./numerics/sector-cost.js";
+import type { Predictor } from "./types.js";
 
 /**
  * Runs the adiabatic predictor.
@@ -29,3 +30,28 @@ export function computeAdiabatic(
   const result = adiabaticGap(problem, cost, optimum ?? cost.min, { ...DEFAULT_ADIABATIC_OPTIONS, grid }, threads);
   return { ...result };
 }
+
+/**
+ * The adiabatic minimum gap on the predictor registry: one worker cell per instance, its parameter the grid size
+ * (`grid`, --adiabatic-grid). Instances without a unique optimum come back as `skipped` rows with the reason. Its
+ * measure is the time scale 1/gap_min² (`runtime_scale`), not an oracle count.
+ */
+export const adiabaticPredictor: Predictor = {
+  name: "adiabatic",
+  description: "minimum gap of the adiabatic path (Farhi et al., Science 292, 472): runtime scale 1/gap_min²",
+  options: ["adiabatic-grid", "spectral-memory"],
+  appliesTo: () => null,
+  measure: {
+    column: "runtime_scale",
+    meaning: "a time scale 1/gap_min² (units ħ/energy), not an oracle count",
+  },
+  cell: {
+    param: "grid",
+    scanned: false,
+    params: (options) => [Number(options["adiabatic-grid"] ?? DEFAULT_ADIABATIC_OPTIONS.grid)],
+    maxSize: () => SECTOR_COST_MAX_N,
+    memory: cellMemory,
+    // Study cells use one thread each: the pool's workers already fill the cores.
+    run: (problem, input) => computeAdiabatic(problem, input.optimum, input.param, allowedMemory(input.options)),
+  },
+};

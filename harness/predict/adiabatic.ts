@@ -21,7 +21,8 @@
  * Runtime scale: 1/gap_min², the standard adiabatic-condition scale T ≫ max|⟨1|dH/ds|0⟩|/gap_min² (e.g. Farhi et
  * al., "Quantum computation by adiabatic evolution", arXiv:quant-ph/0001106, §2; the long version of the Science paper,
  * arXiv:quant-ph/0104129, states the same condition), up to the matrix-element factor, which we do not compute. It is reported in
- * `runtime_scale` and, so that the study fits and compares it like the other predictors, in `queries`.
+ * `runtime_scale` only, never in `queries`: it is a time scale of an analog evolution (units ħ/energy), not a count of
+ * oracle queries, so the study fits it as its own measure and the comparison rates it against no classical measure.
  */
 import { costTolerance, type Problem } from "../model/problem.js";
 import { LeanVectorPool, leanLowestEigenpairs } from "./numerics/lean-lanczos.js";
@@ -75,9 +76,6 @@ export type AdiabaticResult = {
   solves: number;
   /** 1/gap_min²: the adiabatic-condition runtime scale, up to matrix-element factors. */
   runtime_scale: number | null;
-  /** The same in the `queries` column, so the study fits it like the other predictors. */
-  queries: number | null;
-  queries_log2: number | null;
   /** The best grid point was an end of the grid. */
   edge: boolean;
   grid: number;
@@ -180,7 +178,7 @@ export function adiabaticGap(problem: Problem, cost: SectorCost, optimum: number
   const sector = cost.symmetric ? "symmetric" : "all";
   const base: AdiabaticResult = {
     status: "ok", reason: "", n: cost.n, sector, optima, s_star: null, gap_min: null, e0: null, e1: null, solves: 0,
-    runtime_scale: null, queries: null, queries_log2: null, edge: false, grid, residual: 0, converged: true,
+    runtime_scale: null, edge: false, grid, residual: 0, converged: true,
   };
   const unique = cost.symmetric ? 2 : 1;
   if (optima !== unique) {
@@ -224,8 +222,6 @@ function search(base: AdiabaticResult, path: AdiabaticPath, grid: number, option
     e1: at.e1,
     solves: path.solves,
     runtime_scale: finite ? scale : null,
-    queries: finite ? scale : null,
-    queries_log2: finite ? Math.log2(scale) : null,
     edge: best === 0 || best === grid - 1,
     residual: path.residual,
     converged: path.converged,

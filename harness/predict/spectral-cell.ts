@@ -7,12 +7,13 @@ import type { Problem } from "../model/problem.js";
 import { InputError } from "../errors.js";
 import { DEFAULT_SPECTRAL_OPTIONS } from "./spectral.js";
 import { spectralLeanScan } from "./spectral-lean.js";
-import { defaultSpectralMemory, memoryRefusal } from "./numerics/memory.js";
-import { buildSectorCost } from "./numerics/sector-cost.js";
+import { allowedMemory, cellMemory, defaultSpectralMemory, memoryRefusal } from "./numerics/memory.js";
+import { SECTOR_COST_MAX_N, buildSectorCost } from "./numerics/sector-cost.js";
+import type { Predictor } from "./types.js";
 
 /**
  * Runs the spectral predictor at one (b, η).
- * @param optimum - exact optimum from ground truth, or null to take it from the cost vector.
+ * @param optimum - exact optimum from ground truth, or null to take it from the cost.
  * @param memory - allowance in bytes (default: 75% of physical memory).
  * @param threads - threads for the products (default 1: study cells already fill the cores).
  * @throws InputError when the instance needs more memory than allowed (the message names both).
@@ -31,3 +32,24 @@ export function computeSpectral(
   const [row] = spectralLeanScan(problem, cost, optimum ?? cost.min, [b], { ...DEFAULT_SPECTRAL_OPTIONS, eta }, threads);
   return { ...row } as Record<string, number | string | boolean | null>;
 }
+
+/**
+ * The spectral method on the predictor registry: one worker cell per instance and filter strength b (a thin
+ * wrapper over {@link computeSpectral}; the numerics live in spectral-lean.ts and numerics/). Its reach is set by
+ * memory (--spectral-memory), checked at the edge through `memory`; `maxSize` is only the index-width cap.
+ */
+export const spectralPredictor: Predictor = {
+  name: "spectral",
+  description: "two-stage spectral method (arXiv:2212.01513): exact Lanczos numerics of the filtered Hamiltonian",
+  options: ["spectral-b", "spectral-b-scan", "spectral-eta", "spectral-memory"],
+  appliesTo: () => null,
+  cell: {
+    param: "b",
+    params: (options) => [...(options["spectral-b"] as ReadonlyArray<number>)],
+    maxSize: () => SECTOR_COST_MAX_N,
+    memory: cellMemory,
+    // Study cells use one thread each: the pool's workers already fill the cores.
+    run: (problem, input) =>
+      computeSpectral(problem, input.optimum, input.param, Number(input.options["spectral-eta"]), allowedMemory(input.options)),
+  },
+};

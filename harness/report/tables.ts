@@ -3,14 +3,12 @@
  * predictors are evaluated here from the recorded ground truth and measured success probabilities: they
  * are pure functions of those, so they need no cells of their own and change when the journal does.
  */
-import type { JournalRecord, RunRecord, SpectralRecord, TruthRecord } from "../journal.js";
-import type { StudySpec } from "../study.js";
+import type { JournalRecord, RunRecord, SpectralRecord, TruthRecord } from "../engine/journal.js";
+import type { StudySpec } from "../engine/study.js";
 import type { InstanceRow, PredictionRow, RunRow } from "../types.js";
 import { ttsFromCounts } from "../stats/tts.js";
-import { groverKnown, groverUnknown } from "../predict/grover.js";
-import { minFinding } from "../predict/min-finding.js";
-import { amplifyTrial } from "../predict/amplify.js";
-import { cutValue } from "../families/maxcut.js";
+import { PREDICTORS, predictorNamed } from "../predict/registry.js";
+import { familyNamed } from "../families/registry.js";
 
 /** The three per-observation tables. */
 export interface Tables {
@@ -41,8 +39,7 @@ export function buildTables(spec: StudySpec, records: ReadonlyArray<JournalRecor
     optimum: t.optimum,
     degeneracy: t.degeneracy,
     satisfiable: t.optimum === null || !isCnf(spec) ? null : t.optimum === 0,
-    // MaxCut: the optimum energy Σ_edges s_i s_j as the largest cut, (edges − E)/2.
-    ...(spec.family === "maxcut" && t.optimum !== null ? { max_cut: cutValue(Number(t.meta.edges), t.optimum) } : {}),
+    ...(familyNamed(spec.family).describe?.(t.meta, t.optimum) ?? {}),
     mean_cost: t.mean,
     status: t.status,
   }));
@@ -51,9 +48,9 @@ export function buildTables(spec: StudySpec, records: ReadonlyArray<JournalRecor
   for (const t of truths) {
     runs.push({
       family: spec.family, n: t.n, instance: t.index, solver: "exhaustive", run_length: null, status: t.status,
-      wall_ns: t.wall_ns, work: t.assignments, trials: null, successes: null, p: null, p_low: null, p_high: null,
+      wall_ns: t.wall_ns, work: t.evaluated ?? t.assignments, floor_ns: t.floor_ns ?? null, trials: null, successes: null, p: null, p_low: null, p_high: null,
       work_per_trial: null, wall_ns_per_trial: null, tts_ns: t.status === "ok" ? t.wall_ns : null, tts_ns_low: null,
-      tts_ns_high: null, tts_work: t.status === "ok" ? t.assignments : null, tts_work_low: null, message: t.message,
+      tts_ns_high: null, tts_work: t.status === "ok" ? (t.evaluated ?? t.assignments) : null, tts_work_low: null, message: t.message,
     });
   }
   for (const r of runsRec) runs.push(runRow(spec, r));
@@ -63,40 +60,31 @@ export function buildTables(spec: StudySpec, records: ReadonlyArray<JournalRecor
   for (const t of truths) {
     if (t.status !== "ok" || t.optimum === null || t.degeneracy === null) continue;
     const base = { family: spec.family, n: t.n, instance: t.index };
-    const satisfiable = isCnf(spec) && t.optimum === 0;
-    for (const predictor of spec.predictors) {
-      if (predictor === "grover") predictions.push(prediction(base, predictor, groverKnown(t.n, t.degeneracy)));
-      if (predictor === "grover-unknown") predictions.push(prediction(base, predictor, groverUnknown(t.n, t.degeneracy)));
-      // Minimum finding answers the optimisation question: spin families, and CNF instances with no model.
-      if (predictor === "min-finding" && !satisfiable) {
-        predictions.push(prediction(base, predictor, minFinding(t.n)));
-      }
+    const view = { n: t.n, kind: familyNamed(spec.family).kind, optimum: t.optimum, degeneracy: t.degeneracy };
+    for (const name of spec.predictors) {
+      const parts = predictorNamed(name).fromTruth?.(view) ?? null;
+      if (parts !== null) predictions.push(prediction(base, name, parts));
     }
   }
   for (const r of runsRec) {
-    const predictor = `amplified-${r.solver}`;
-    if (!spec.predictors.includes(predictor) || r.status === "error" || r.trials === 0) continue;
+    const predictor = PREDICTORS.find((p) => p.amplifies === r.solver && p.fromTrials !== undefined && spec.predictors.includes(p.name));
+    if (!predictor || r.status === "error" || r.trials === 0) continue;
     const row = runRow(spec, r);
-    const parts = amplifyTrial(row.p ?? 0, row.p_low ?? undefined, row.p_high ?? undefined, row.work_per_trial ?? undefined);
-    predictions.push({ ...prediction({ family: spec.family, n: r.n, instance: r.index }, predictor, parts), run_length: r.run_length });
+    const parts = predictor.fromTrials!({
+      n: r.n, solver: r.solver, runLength: r.run_length, p: row.p ?? 0, pLow: row.p_low ?? undefined, pHigh: row.p_high ?? undefined,
+      workPerTrial: row.work_per_trial ?? undefined,
+    });
+    predictions.push(prediction({ family: spec.family, n: r.n, instance: r.index }, predictor.name, parts));
   }
   for (const s of spectralRec) {
     const truth = truthOf.get(`${s.n}|${s.index}`);
     if (!truth) continue;
+    // The record's status is the cell's (ok, skipped, error); a row's own `status` and `n` would only repeat it.
+    const { status: _status, n: _n, ...row } = s.row;
     predictions.push({
-      family: spec.family, n: s.n, instance: s.index, predictor: "spectral", status: s.status,
+      family: spec.family, n: s.n, instance: s.index, predictor: s.predictor ?? "spectral", status: s.status,
       queries: null, queries_log2: null, queries_low: null, queries_high: null,
-      ...s.row, wall_ns: s.wall_ns, message: s.message,
-    } as PredictionRow);
-  }
-  for (const a of records) {
-    if (a.kind !== "adiabatic" || !truthOf.has(`${a.n}|${a.index}`)) continue;
-    // The row's own status (ok or skipped) is the cell's; its `n` duplicates the key column.
-    const { status: _status, n: _n, ...row } = a.row;
-    predictions.push({
-      family: spec.family, n: a.n, instance: a.index, predictor: "adiabatic", status: a.status,
-      queries: null, queries_log2: null, queries_low: null, queries_high: null,
-      ...row, wall_ns: a.wall_ns, message: a.message,
+      ...row, wall_ns: s.wall_ns, message: s.message,
     } as PredictionRow);
   }
   markBestB(predictions);
@@ -122,7 +110,7 @@ function markBestB(predictions: PredictionRow[]): void {
 }
 
 function isCnf(spec: StudySpec): boolean {
-  return spec.family === "ksat" || spec.family === "cnf";
+  return familyNamed(spec.family).kind === "cnf";
 }
 
 function runRow(spec: StudySpec, r: RunRecord): RunRow {
@@ -133,7 +121,7 @@ function runRow(spec: StudySpec, r: RunRecord): RunRow {
   const finite = (x: number | null | undefined): number | null => (x === null || x === undefined || !Number.isFinite(x) ? null : x);
   return {
     family: spec.family, n: r.n, instance: r.index, solver: r.solver, run_length: r.run_length, status: r.status,
-    wall_ns: r.wall_ns, work: r.work, trials: r.trials, successes: r.successes,
+    wall_ns: r.wall_ns, work: r.work, floor_ns: r.floor_ns ?? null, trials: r.trials, successes: r.successes,
     p: tts ? tts.p : null, p_low: tts ? tts.p_low : null, p_high: tts ? tts.p_high : null,
     work_per_trial: workPerTrial, wall_ns_per_trial: wallPerTrial,
     tts_ns: finite(tts?.tts), tts_ns_low: finite(tts?.tts_low), tts_ns_high: finite(tts?.tts_high),

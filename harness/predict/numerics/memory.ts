@@ -13,6 +13,8 @@ import type { Problem } from "../../model/problem.js";
 import { sizeOf } from "../../model/problem.js";
 import { LEAN_VECTORS } from "./lean-lanczos.js";
 import { SECTOR_COST_MAX_N, costBytesPerAmplitude, usesSymmetricSector } from "./sector-cost.js";
+import type { MethodOptions } from "../../../solvers/types.js";
+import type { CellMemory, CellSizeTarget } from "../types.js";
 
 /** Share of physical memory allowed by default. */
 export const DEFAULT_MEMORY_SHARE = 0.75;
@@ -70,30 +72,33 @@ export function parseMemory(text: string): number | null {
 }
 
 /**
- * Bytes per amplitude for a generated family before any instance exists (a study's check and its message):
- * ksat 49 (50 beyond 255 clauses); sk and maxcut 28 (flip-symmetric); pspin 28 for even p, 56 for odd; folder
- * families take the larger case (cnf 50, ising 56), since their files may differ.
+ * Bytes per amplitude before any instance exists (a study's check at the edge and its message), from what the
+ * family declares: CNF 49 (50 beyond 255 clauses, or when the clause count is not fixed, as for a folder of files);
+ * flip-symmetric Ising (SK, MaxCut, even p) 28; other Ising 56.
  */
-export function familyBytesPerAmplitude(family: string, params: Readonly<Record<string, unknown>>, n: number): number {
+export function targetBytesPerAmplitude(target: CellSizeTarget): number {
   const vectors = 8 * LEAN_VECTORS;
-  switch (family) {
-    case "ksat": {
-      const clauses = Math.round(Number(params.density) * n);
-      return vectors + (clauses > 255 ? 2 : 1);
-    }
-    case "sk":
-    case "maxcut":
-      return (vectors + 8) / 2;
-    case "pspin":
-      return Number(params.p) % 2 === 0 ? (vectors + 8) / 2 : vectors + 8;
-    case "cnf":
-      return vectors + 2;
-    default:
-      return vectors + 8;
-  }
+  if (target.kind === "cnf") return vectors + (target.clauses !== null && target.clauses <= 255 ? 1 : 2);
+  return target.flipSymmetric ? (vectors + 8) / 2 : vectors + 8;
 }
 
-/** Bytes the largest spectral or adiabatic cell of a study at size n needs. */
-export function studyMemoryNeeded(family: string, params: Readonly<Record<string, unknown>>, n: number): number {
-  return familyBytesPerAmplitude(family, params, n) * 2 ** n + OVERHEAD_BYTES;
+/** Bytes one spectral or adiabatic cell of a study at size n needs. */
+export function targetMemoryNeeded(target: CellSizeTarget, n: number): number {
+  return targetBytesPerAmplitude(target) * 2 ** n + OVERHEAD_BYTES;
+}
+
+/** The allowance a cell reads from the resolved method options: `spectral-memory` in bytes, or this machine's default. */
+export function allowedMemory(options: MethodOptions): number {
+  const v = options["spectral-memory"];
+  return typeof v === "number" && v > 0 ? v : defaultSpectralMemory();
+}
+
+/** The memory of one spectral or adiabatic cell at size n against its allowance (the predictors' `memory`). */
+export function cellMemory(target: CellSizeTarget, n: number, options: MethodOptions): CellMemory {
+  return {
+    needed: targetMemoryNeeded(target, n),
+    allowed: allowedMemory(options),
+    detail: `${targetBytesPerAmplitude(target)} bytes per amplitude × 2^${n}`,
+    option: "spectral-memory",
+  };
 }
