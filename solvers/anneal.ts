@@ -144,15 +144,15 @@ export function annealTrials(problem: Problem, options: AnnealOptions): TrialsRe
   return { trials: done, successes, work: done * sweeps * n, best, censored };
 }
 
-/** Stop-flag polling shared by the trial loop and the engines' sweep loops. */
-interface Poll {
+/** Stop-flag polling shared by the trial loop and the engines' sweep loops (exported for solvers/tempering.ts). */
+export interface Poll {
   readonly stop: StopFlag;
   /** Flip attempts (and trial starts) since the last poll. */
   since: number;
 }
 
 /** Polls the stop flag when {@link ANNEAL_POLL_INTERVAL} attempts have passed since the last poll. */
-function pollStop(poll: Poll): boolean {
+export function pollStop(poll: Poll): boolean {
   if (poll.since < ANNEAL_POLL_INTERVAL) return false;
   poll.since = 0;
   return stopRequested(poll.stop);
@@ -235,8 +235,8 @@ export function betaSchedule(betaStart: number, betaEnd: number, sweeps: number,
   return betas;
 }
 
-/** What the trial loop needs from a cost representation. */
-interface Engine {
+/** What the trial loop needs from a cost representation (exported for solvers/tempering.ts, which runs one engine per replica). */
+export interface Engine {
   readonly n: number;
   /** Lowest cost of the current trial. */
   best: number;
@@ -250,17 +250,21 @@ interface Engine {
    */
   start(rng: Rng, threshold: number): void;
   /**
-   * The prepared sweeps from the started state: before each sweep `poll` is checked (and advanced by n after
-   * it). Returns false when the stop flag stopped the trial.
+   * The prepared sweeps from the started state (sweeps `from` .. `to` − 1 of the prepared schedule, default all;
+   * tempering runs one sweep at a time): before each sweep `poll` is checked (and advanced by n after it). Returns
+   * false when the stop flag stopped the trial.
    */
-  run(poll: Poll): boolean;
+  run(poll: Poll, from?: number, to?: number): boolean;
+  /** Cost of the current state (violated clauses, or the running Ising energy, exact to rounding). */
+  current(): number;
   /** Cost change of flipping variable i in the current state. */
   delta(i: number): number;
   /** Flips variable i unconditionally. */
   flip(i: number): void;
 }
 
-function makeEngine(problem: Problem): Engine {
+/** The fastest engine for a problem (see {@link annealTrials}). */
+export function makeEngine(problem: Problem): Engine {
   if (problem.kind === "cnf") return new CnfEngine(compileCnf(problem.cnf));
   const model = problem.ising;
   const n = model.spins;
@@ -461,7 +465,11 @@ class CnfEngine implements Engine {
     }
   }
 
-  run(poll: Poll): boolean {
+  current(): number {
+    return this.cost;
+  }
+
+  run(poll: Poll, from = 0, to = this.betas.length): boolean {
     // The flip is written out here rather than calling flip(), so that everything stays in locals for the
     // whole trial. `| 0` marks the values read from fields as int32 once, here (read from fields, they were
     // untagged and checked at every use inside the loops, as the optimised code showed; measured with valgrind
@@ -486,7 +494,7 @@ class CnfEngine implements Engine {
     let best = this.best;
     let hit = this.hit;
     let stopped = false;
-    for (let s = 0; s < betas.length; s++) {
+    for (let s = from; s < to; s++) {
       if (pollStop(poll)) {
         stopped = true;
         break;
@@ -620,9 +628,13 @@ class DenseEngine implements Engine {
     this.betas = betas;
   }
 
-  run(poll: Poll): boolean {
+  current(): number {
+    return this.energy;
+  }
+
+  run(poll: Poll, from = 0, to = this.betas.length): boolean {
     const betas = this.betas;
-    for (let s = 0; s < betas.length; s++) {
+    for (let s = from; s < to; s++) {
       if (pollStop(poll)) return false;
       poll.since += this.n;
       this.sweep(betas[s], this.rng);
@@ -767,9 +779,13 @@ class TermEngine implements Engine {
     this.betas = betas;
   }
 
-  run(poll: Poll): boolean {
+  current(): number {
+    return this.energy;
+  }
+
+  run(poll: Poll, from = 0, to = this.betas.length): boolean {
     const betas = this.betas;
-    for (let s = 0; s < betas.length; s++) {
+    for (let s = from; s < to; s++) {
       if (pollStop(poll)) return false;
       poll.since += this.n;
       this.sweep(betas[s], this.rng);
