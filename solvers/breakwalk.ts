@@ -17,7 +17,9 @@
  * Bookkeeping: per clause its true-literal count and the XOR of its true variables (which names the critical
  * variable when the count is 1), per variable its break count, and the violated clauses in an indexed list, all
  * updated incrementally by a flip in O(occurrences of the flipped variable); f comes from a table indexed by
- * break. Nothing is allocated per flip. Trial t draws only from trialRng(seed, t) (./walk.ts).
+ * break. For 3-SAT the authors' code computes breaks on the fly instead (scanning the picked clause's variables'
+ * occurrences); we measured both on random 3-SAT n = 200 (same draws, interleaved runs on the loaded 2-core test
+ * machine): cached 6.6–7.7e6, on the fly 5.0–6.0e6 flips per CPU-second, so every k uses the cached counts. Nothing is allocated per flip. Trial t draws only from trialRng(seed, t) (./walk.ts).
  */
 import type { Cnf } from "../harness/model/cnf.js";
 import { stopRequested, type StopFlag, type TrialsResult } from "./types.js";
@@ -114,12 +116,19 @@ export function breakwalkCompiled(f: CompiledCnf, options: BreakwalkOptions): Br
   const k = f.clauseLength;
   const empty = f.emptyClauses;
   const value = new Uint8Array(n);
-  const trueCount = new Int32Array(m);
-  const critical = new Int32Array(m); // XOR of the variables whose literal in the clause is true
-  const breaks = new Int32Array(n);
-  // violated[1 .. unsat], position[c] its slot (slot 0 unused, as in the walk).
+  // One word per clause: its true-literal count in the low `bits` bits, above them the XOR of the variables whose
+  // literal in it is true (the critical variable when the count is 1). One array instead of two: measured
+  // on random 3-SAT n = 200, 6.6 → 7.4e6 flips per CPU-second.
+  const bits = 32 - Math.clz32(Math.max(maxLength, 1));
+  const mask = (1 << bits) - 1;
+  if (2 ** Math.ceil(Math.log2(Math.max(n, 2))) * 2 ** bits > 2 ** 31) throw new RangeError(`breakwalk: ${n} variables with clauses of ${maxLength} literals do not fit the packed clause words`);
+  const word = new Int32Array(m);
+  // Padded to a power of two: an XOR of variable indices (read with weight 0) stays inside.
+  const breaks = new Int32Array(2 ** Math.ceil(Math.log2(Math.max(n, 2))));
+  // violated[1 .. unsat], position[c] its slot; slots 0 and unsat + 1 are scratch for the branch-free updates.
   const violated = new Int32Array(m + 2);
   const position = new Int32Array(m);
+  const removed = new Int32Array(f.maxOccurrences + 1);
   const weight = new Float64Array(Math.max(maxLength, 1));
   const key = trialKey(options.seed);
   const stop = options.stop;
@@ -162,8 +171,7 @@ export function breakwalkCompiled(f: CompiledCnf, options: BreakwalkOptions): Br
         count += isTrue;
         x ^= (code >> 1) & -isTrue;
       }
-      trueCount[c] = count;
-      critical[c] = x;
+      word[c] = count | (x << bits);
       if (count === 0) {
         violated[++unsat] = c;
         position[c] = unsat;
@@ -217,38 +225,50 @@ export function breakwalkCompiled(f: CompiledCnf, options: BreakwalkOptions): Br
       // Flip v: its literal with the new value became true in the `up` clauses, false in the `down` ones.
       const now = value[v] ^ 1;
       value[v] = now;
+      // Branch-free, as in the walk: [count = 0] = (count − 1) >>> 31 and [count = 1] = ((count ^ 1) − 1) >>> 31
+      // weight the updates (the branches mispredict on random formulas). When the weight is 0 the XOR may name
+      // variable 0 or any variable; it then gets ± 0. The clauses that stop being violated are collected first
+      // and removed after the loop, in visiting order.
       const up = 2 * v + now;
+      const vx = v << bits;
+      let nRemoved = 0;
+      let gained = 0;
       for (let i = occurrenceStart[up], end = occurrenceStart[up + 1]; i < end; i++) {
         const d = occurrences[i];
-        const count = trueCount[d];
-        trueCount[d] = count + 1;
-        if (count === 0) {
-          // Satisfied now, by v alone: out of the violated list; v breaks it.
-          const last = violated[unsat--];
-          const p = position[d];
-          violated[p] = last;
-          position[last] = p;
-          breaks[v]++;
-        } else if (count === 1) {
-          breaks[critical[d]]--; // no longer critical
-        }
-        critical[d] ^= v;
+        const w = word[d];
+        const count = w & mask;
+        const x = w >>> bits;
+        word[d] = (w + 1) ^ vx;
+        const wasZero = (count - 1) >>> 31;
+        breaks[x] -= ((count ^ 1) - 1) >>> 31; // count 1 → 2: x is no longer critical
+        gained += wasZero; // count 0 → 1: v alone satisfies it now
+        removed[nRemoved] = d;
+        nRemoved += wasZero;
+      }
+      breaks[v] += gained;
+      for (let r = 0; r < nRemoved; r++) {
+        const d = removed[r];
+        const last = violated[unsat--];
+        const p = position[d];
+        violated[p] = last;
+        position[last] = p;
       }
       const down = up ^ 1;
+      let lost = 0;
       for (let i = occurrenceStart[down], end = occurrenceStart[down + 1]; i < end; i++) {
         const d = occurrences[i];
-        const count = trueCount[d] - 1;
-        trueCount[d] = count;
-        const x = critical[d] ^ v;
-        critical[d] = x;
-        if (count === 0) {
-          breaks[v]--; // v was its critical variable
-          violated[++unsat] = d;
-          position[d] = unsat;
-        } else if (count === 1) {
-          breaks[x]++; // the remaining true variable became critical
-        }
+        const w = (word[d] ^ vx) - 1;
+        word[d] = w;
+        const count = w & mask;
+        const x = w >>> bits;
+        const isZero = (count - 1) >>> 31;
+        lost += isZero; // count 1 → 0: v was its critical variable
+        breaks[x] += ((count ^ 1) - 1) >>> 31; // count 2 → 1: the remaining true variable x became critical
+        violated[unsat + 1] = d;
+        position[d] = unsat + 1;
+        unsat += isZero;
       }
+      breaks[v] -= lost;
       flips++;
       if (unsat < trialBest) trialBest = unsat;
     }
@@ -273,3 +293,4 @@ export function breakwalkCompiled(f: CompiledCnf, options: BreakwalkOptions): Br
 function checkCount(name: string, value: number): void {
   if (!Number.isSafeInteger(value) || value < 0) throw new RangeError(`${name} must be an integer ≥ 0, got ${value}`);
 }
+
