@@ -45,6 +45,10 @@ export interface RunRecord extends RecordBase {
   readonly best: number | null;
   readonly beta_start: number | null;
   readonly beta_end: number | null;
+  /** Solver-specific runs.csv columns (breakwalk, tempering); absent for the others. */
+  readonly details?: Readonly<Record<string, number | string | null>>;
+  /** Breakwalk's run-length distribution: flips to solution per trial, −1 where censored at the cap. */
+  readonly rld?: ReadonlyArray<number>;
 }
 
 /** Spectral numerics at one b. */

@@ -20,7 +20,7 @@ export interface OptionSpec {
 /** Family names the tool generates or reads. */
 export const FAMILY_NAMES = ["ksat", "sk", "pspin", "maxcut", "cnf", "ising"] as const;
 /** Classical solvers. */
-export const SOLVER_NAMES = ["exhaustive", "walk", "anneal"] as const;
+export const SOLVER_NAMES = ["exhaustive", "walk", "breakwalk", "anneal", "tempering"] as const;
 /** Quantum predictors. */
 export const PREDICTOR_NAMES = [
   "grover",
@@ -47,12 +47,21 @@ export const STUDY_OPTIONS: ReadonlyArray<OptionSpec> = [
   { name: "couplings", type: "string", group: "family", default: "gauss", choices: ["gauss", "pm1"], description: "sk: J ~ N(0,1/n) or ±1/√n" },
   { name: "p", type: "integer", group: "family", default: 3, min: 2, max: 8, description: "pspin: interaction order" },
   { name: "degree", type: "integer", group: "family", default: 3, min: 1, max: 64, description: "maxcut: vertex degree d of the random regular graph" },
-  { name: "solvers", type: "list", group: "solvers", default: "exhaustive,walk,anneal", choices: SOLVER_NAMES, description: "classical solvers to time (exhaustive always runs: it is the ground truth)" },
+  { name: "solvers", type: "list", group: "solvers", default: "exhaustive,walk,breakwalk,anneal", choices: SOLVER_NAMES, description: "classical solvers to time (exhaustive always runs: it is the ground truth); spin families default to exhaustive,anneal,tempering" },
   { name: "trials", type: "integer", group: "solvers", default: 200, min: 1, max: 1e9, description: "walk/anneal: independent trials per instance and run length" },
   { name: "walk-flips", type: "string", group: "solvers", default: "3n", description: "walk: flips per trial before a restart, as K·n (e.g. 3n, Schöning's choice)" },
   { name: "sweeps", type: "list", group: "solvers", default: "10,30,100,300", description: "anneal: sweeps per trial, one run per value" },
   { name: "schedule", type: "string", group: "solvers", default: "geometric", choices: ["linear", "geometric"], description: "anneal: inverse-temperature schedule" },
   { name: "beta", type: "string", group: "solvers", description: "anneal: inverse-temperature range START:END (default: derived from the instance's energy scale)" },
+  // --- baselines (issue 12): breakwalk and tempering ---
+  { name: "breakwalk-rule", type: "string", group: "solvers", choices: ["poly", "exp"], description: "breakwalk: flip weight f(break), (eps+break)^-cb or cb^-break (default: poly for k ≤ 3, exp above)" },
+  { name: "breakwalk-cb", type: "number", group: "solvers", min: 0, description: "breakwalk: cb of the flip weight (default per k: 2.38, 3.0, 3.6, 4.4 for k = 3, 4, 5, ≥ 6)" },
+  { name: "breakwalk-eps", type: "number", group: "solvers", min: 0, description: "breakwalk: eps of the polynomial weight (default 1)" },
+  { name: "breakwalk-flips", type: "string", group: "solvers", default: "1000n", description: "breakwalk: flips per trial at most (the cap of its run-length distribution), as K·n" },
+  { name: "tempering-replicas", type: "integer", group: "solvers", default: 8, min: 1, max: 256, description: "tempering: replicas R (temperatures geometric between the hot and cold ends)" },
+  { name: "tempering-sweeps", type: "list", group: "solvers", default: "10,30,100", description: "tempering: rounds per trial (a sweep of every replica, then exchanges), one run per value" },
+  { name: "tempering-beta", type: "string", group: "solvers", description: "tempering: inverse-temperature range HOT:COLD (default: the annealer's instance-derived range)" },
+  // --- end baselines ---
   { name: "predict", type: "list", group: "predictors", default: "grover,grover-unknown,min-finding,amplified-walk,amplified-anneal", choices: PREDICTOR_NAMES, description: "quantum predictors (query counts, never timings)" },
   { name: "b", type: "number", group: "predictors", default: 0.7, min: 0, description: "spectral: filter strength b" },
   { name: "b-scan", type: "string", group: "predictors", description: "spectral: scan b over FROM:TO:STEP (overrides --b)" },

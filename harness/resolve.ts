@@ -159,7 +159,12 @@ export function resolveStudy(argv: Argv): StudySpec {
       if (n <= d || (n * d) % 2 === 1) throw new InputError(`--n: no simple ${d}-regular graph on ${n} vertices (need n > d and n·d even)`);
     }
   }
-  const solvers = listOption(argv, "solvers", SOLVER_NAMES).filter((s) => s !== "exhaustive");
+  // --- baselines (issue 12): spin families default to anneal and tempering; breakwalk is for CNF only ---
+  const solvers = listOption(argv.solvers === undefined && !isCnf ? { ...argv, solvers: "exhaustive,anneal,tempering" } : argv, "solvers", SOLVER_NAMES)
+    .filter((s) => s !== "exhaustive");
+  if (solvers.includes("breakwalk") && !isCnf) throw new InputError(`--solvers: breakwalk applies to k-SAT/CNF families only, not '${family}'`);
+  const baselines = resolveBaselines(argv);
+  // --- end baselines ---
   if (solvers.includes("walk") && !isCnf) {
     if (argv.solvers !== undefined) throw new InputError(`--solvers: walk (Schöning) applies to k-SAT/CNF families only, not '${family}'`);
     solvers.splice(solvers.indexOf("walk"), 1); // the default list names it for k-SAT studies
@@ -219,12 +224,42 @@ export function resolveStudy(argv: Argv): StudySpec {
     sweeps,
     schedule,
     beta,
+    ...baselines,
     predictors,
     spectral: { bValues, eta: numberOption(argv, "eta") as number },
     costModel: resolveCostModel(argv),
     report: { fitFrom: optionalNumber(argv, "fit-from"), resamples: numberOption(argv, "resamples") as number },
   };
   return deepFreeze(study);
+}
+
+/** Breakwalk and tempering options (issue 12), validated. */
+function resolveBaselines(argv: Argv): Pick<StudySpec, "breakwalk" | "tempering"> {
+  const rule = argv["breakwalk-rule"] === undefined ? null : String(argv["breakwalk-rule"]);
+  if (rule !== null && rule !== "poly" && rule !== "exp") throw new InputError(`--breakwalk-rule: '${rule}' is not poly or exp`);
+  const cb = optionalNumber(argv, "breakwalk-cb");
+  if (cb !== null && !(cb > 0)) throw new InputError(`--breakwalk-cb: must be positive, got ${cb}`);
+  const eps = optionalNumber(argv, "breakwalk-eps");
+  if (eps !== null && !(eps > 0)) throw new InputError(`--breakwalk-eps: must be positive, got ${eps}`);
+  const flipsText = String(argv["breakwalk-flips"] ?? spec("breakwalk-flips").default);
+  const bf = /^(\d+(?:\.\d+)?)n$/.exec(flipsText);
+  if (!bf || !(Number(bf[1]) > 0)) throw new InputError(`--breakwalk-flips: '${flipsText}' is not of the form Kn with K > 0 (e.g. 1000n)`);
+  const sweeps = numberList(String(argv["tempering-sweeps"] ?? spec("tempering-sweeps").default), "--tempering-sweeps").map((s) => {
+    if (!Number.isInteger(s)) throw new InputError(`--tempering-sweeps: '${s}' is not a whole number`);
+    return s;
+  });
+  let beta: [number, number] | null = null;
+  if (argv["tempering-beta"] !== undefined) {
+    const parts = String(argv["tempering-beta"]).split(":").map(Number);
+    if (parts.length !== 2 || !parts.every((x) => Number.isFinite(x) && x > 0) || parts[1] < parts[0]) {
+      throw new InputError(`--tempering-beta: '${String(argv["tempering-beta"])}' is not HOT:COLD with 0 < HOT ≤ COLD`);
+    }
+    beta = [parts[0], parts[1]];
+  }
+  return {
+    breakwalk: { rule: rule as "poly" | "exp" | null, cb, eps, capPerVariable: Number(bf[1]) },
+    tempering: { replicas: numberOption(argv, "tempering-replicas") as number, sweeps, beta },
+  };
 }
 
 /** A numeric option that has no default: null when not given. */

@@ -208,16 +208,22 @@ export async function runStudy(spec: StudySpec, options: RunOptions): Promise<Ru
       if (cell.method === "walk" && truth.optimum > 0) {
         return rec({ status: "skipped", message: "not applicable: unsatisfiable, and Schöning's walk only finds models" });
       }
+      if (cell.method === "breakwalk" && truth.optimum > 0) {
+        return rec({ status: "skipped", message: "not applicable: unsatisfiable, and breakwalk only finds models" });
+      }
       return withStopFlag(async (flag) => {
         try {
           const a = await pool.run<TrialsAnswer>({
-            type: "trials", ctx: ctxOf(inst), solver: cell.method as "walk" | "anneal", runLength: cell.runLength ?? 0,
+            type: "trials", ctx: ctxOf(inst), solver: cell.method as "walk" | "anneal" | "breakwalk" | "tempering", runLength: cell.runLength ?? 0,
             trials: spec.trials, seed: cell.seed, target: truth.optimum as number, schedule: spec.schedule, beta: spec.beta, stop: flag,
+            ...(cell.method === "breakwalk" ? { breakwalk: { rule: spec.breakwalk.rule, cb: spec.breakwalk.cb, eps: spec.breakwalk.eps } } : {}),
+            ...(cell.method === "tempering" ? { tempering: { replicas: spec.tempering.replicas, beta: spec.tempering.beta } } : {}),
           });
           const r = a.result;
           return rec({
             status: r.censored ? "censored" : "ok", wall_ns: a.wall_ns, trials: r.trials, successes: r.successes, work: r.work,
             best: Number.isFinite(r.best) ? r.best : null, beta_start: a.beta_start, beta_end: a.beta_end,
+            ...(a.details ? { details: a.details } : {}), ...(a.rld ? { rld: a.rld } : {}),
             message: r.censored ? `stopped by a time limit after ${r.trials} trials` : "",
           });
         } catch (e) {

@@ -27,6 +27,10 @@ export interface StudySpec {
   readonly schedule: "linear" | "geometric";
   /** Anneal inverse-temperature range, or null for the instance-derived default. */
   readonly beta: readonly [number, number] | null;
+  /** Breakwalk: flip rule (null = the default for the clause length) and the cap, flips = capPerVariable · n. */
+  readonly breakwalk: { readonly rule: "poly" | "exp" | null; readonly cb: number | null; readonly eps: number | null; readonly capPerVariable: number };
+  /** Tempering: replicas, rounds per trial (one run each), and the HOT:COLD range (null = instance-derived). */
+  readonly tempering: { readonly replicas: number; readonly sweeps: ReadonlyArray<number>; readonly beta: readonly [number, number] | null };
   readonly predictors: ReadonlyArray<string>;
   readonly spectral: { readonly bValues: ReadonlyArray<number>; readonly eta: number };
   readonly costModel: {
@@ -103,6 +107,8 @@ export function cellsOfInstance(spec: StudySpec, inst: InstanceRef): Cell[] {
       cells.push(runCell(spec, inst, "walk", len));
     }
     if (solver === "anneal") for (const sweeps of spec.sweeps) cells.push(runCell(spec, inst, "anneal", sweeps));
+    if (solver === "breakwalk" && isCnf) cells.push(runCell(spec, inst, "breakwalk", Math.round(spec.breakwalk.capPerVariable * inst.n)));
+    if (solver === "tempering") for (const sweeps of spec.tempering.sweeps) cells.push(runCell(spec, inst, "tempering", sweeps));
   }
   if (spec.predictors.includes("spectral")) {
     for (const b of spec.spectral.bValues) {

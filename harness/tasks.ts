@@ -19,7 +19,7 @@ export interface TruthSliceTask {
 export interface TrialsTask {
   readonly type: "trials";
   readonly ctx: InstanceContext;
-  readonly solver: "walk" | "anneal";
+  readonly solver: "walk" | "anneal" | "breakwalk" | "tempering";
   readonly runLength: number;
   readonly trials: number;
   readonly seed: string;
@@ -27,6 +27,9 @@ export interface TrialsTask {
   readonly target: number;
   readonly schedule: "linear" | "geometric";
   readonly beta: readonly [number, number] | null;
+  /** Breakwalk's rule (nulls = defaults) and tempering's replicas and range; absent for the other solvers. */
+  readonly breakwalk?: { readonly rule: "poly" | "exp" | null; readonly cb: number | null; readonly eps: number | null };
+  readonly tempering?: { readonly replicas: number; readonly beta: readonly [number, number] | null };
   readonly stop: Int32Array;
 }
 
@@ -59,6 +62,10 @@ export interface TrialsAnswer {
   /** Anneal: the inverse-temperature range used and the rule that chose it. */
   readonly beta_start: number | null;
   readonly beta_end: number | null;
+  /** Solver-specific columns for runs.csv (breakwalk: run-length summary; tempering: exchange acceptance). */
+  readonly details?: Readonly<Record<string, number | string | null>>;
+  /** Breakwalk: flips to solution per trial, −1 where censored at the cap (kept in the journal for per-size RLDs). */
+  readonly rld?: ReadonlyArray<number>;
 }
 
 /** Worker answer to a spectral task: the predictor's columns. */

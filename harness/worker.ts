@@ -10,6 +10,9 @@ import { exhaustiveSlice } from "../solvers/exhaustive.js";
 import { walkTrials } from "../solvers/walk.js";
 import { annealTrials, defaultBetaRange } from "../solvers/anneal.js";
 import { computeSpectral } from "./predict/spectral-cell.js";
+import { breakwalkTrials } from "../solvers/breakwalk.js";
+import { temperingTrials } from "../solvers/tempering.js";
+import { rldDetails, temperingDetails } from "./baseline-details.js";
 
 // Slices and runs of one instance usually reach the same worker in a row; regenerating is cheap for plain
 // draws but costs exact enumerations for --satisfiable/--unique, so the last instance is kept.
@@ -49,6 +52,32 @@ export default function handle(task: Task): TruthSliceAnswer | TrialsAnswer | Sp
         const result = walkTrials(inst.problem.cnf, { trials: task.trials, maxFlips: task.runLength, seed: task.seed, stop: task.stop, firstTrial: 0 });
         return { result, wall_ns: elapsed(start), beta_start: null, beta_end: null };
       }
+      // --- baselines (issue 12) ---
+      if (task.solver === "breakwalk") {
+        if (inst.problem.kind !== "cnf") throw new Error("breakwalk applies to CNF instances only");
+        const rule = task.breakwalk;
+        const start = process.hrtime.bigint();
+        const result = breakwalkTrials(inst.problem.cnf, {
+          trials: task.trials, cap: task.runLength, seed: task.seed, stop: task.stop, firstTrial: 0,
+          rule: rule?.rule ?? undefined, cb: rule?.cb ?? undefined, eps: rule?.eps ?? undefined,
+        });
+        const wall = elapsed(start);
+        const rld = Array.from(result.runLengths.flips, (f, t) => (result.runLengths.solved[t] === 1 ? f : -1));
+        return { result, wall_ns: wall, beta_start: null, beta_end: null, details: rldDetails(result), rld };
+      }
+      if (task.solver === "tempering") {
+        const range = task.tempering?.beta ?? (() => {
+          const r = defaultBetaRange(inst.problem);
+          return [r.betaStart, r.betaEnd] as const;
+        })();
+        const start = process.hrtime.bigint();
+        const result = temperingTrials(inst.problem, {
+          trials: task.trials, sweeps: task.runLength, replicas: task.tempering?.replicas ?? 8, betaHot: range[0], betaCold: range[1],
+          target: task.target, tolerance: costTolerance(inst.problem), seed: task.seed, stop: task.stop, firstTrial: 0,
+        });
+        return { result, wall_ns: elapsed(start), beta_start: range[0], beta_end: range[1], details: temperingDetails(result) };
+      }
+      // --- end baselines ---
       const range = task.beta ?? (() => {
         const r = defaultBetaRange(inst.problem);
         return [r.betaStart, r.betaEnd] as const;

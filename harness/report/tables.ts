@@ -129,6 +129,7 @@ function runRow(spec: StudySpec, r: RunRecord): RunRow {
     tts_ns: finite(tts?.tts), tts_ns_low: finite(tts?.tts_low), tts_ns_high: finite(tts?.tts_high),
     tts_work: finite(ttsWork?.tts),
     tts_work_low: finite(ttsWork?.tts_low),
+    ...(r.details ?? {}),
     message: r.message,
   };
 }
