@@ -61,6 +61,7 @@ export const STUDY_OPTIONS: ReadonlyArray<OptionSpec> = [
   { name: "tempering-replicas", type: "integer", group: "solvers", default: 8, min: 1, max: 256, description: "tempering: replicas R (temperatures geometric between the hot and cold ends)" },
   { name: "tempering-sweeps", type: "list", group: "solvers", default: "10,30,100", description: "tempering: rounds per trial (a sweep of every replica, then exchanges), one run per value" },
   { name: "tempering-beta", type: "string", group: "solvers", description: "tempering: inverse-temperature range HOT:COLD (default: the annealer's instance-derived range)" },
+  { name: "external", type: "string", group: "solvers", description: "NAME=COMMAND: time any solver binary (repeatable); placeholders {file}, {seed}, {timeout}; see README" },
   // --- end baselines ---
   { name: "predict", type: "list", group: "predictors", default: "grover,grover-unknown,min-finding,amplified-walk,amplified-anneal", choices: PREDICTOR_NAMES, description: "quantum predictors (query counts, never timings)" },
   { name: "b", type: "number", group: "predictors", default: 0.7, min: 0, description: "spectral: filter strength b" },

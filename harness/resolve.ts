@@ -2,6 +2,7 @@
  * Validation at the edge: turns parsed command-line values into a frozen {@link StudySpec}. Every problem
  * becomes an InputError naming the option and the value (exit code 2).
  */
+import { parseExternalOption } from "./external-solver.js";
 import { existsSync, readdirSync, readFileSync, statSync } from "node:fs";
 import { join, resolve } from "node:path";
 import { InputError } from "./errors.js";
@@ -234,7 +235,7 @@ export function resolveStudy(argv: Argv): StudySpec {
 }
 
 /** Breakwalk and tempering options (issue 12), validated. */
-function resolveBaselines(argv: Argv): Pick<StudySpec, "breakwalk" | "tempering"> {
+function resolveBaselines(argv: Argv): Pick<StudySpec, "breakwalk" | "tempering" | "external"> {
   const rule = argv["breakwalk-rule"] === undefined ? null : String(argv["breakwalk-rule"]);
   if (rule !== null && rule !== "poly" && rule !== "exp") throw new InputError(`--breakwalk-rule: '${rule}' is not poly or exp`);
   const cb = optionalNumber(argv, "breakwalk-cb");
@@ -257,6 +258,7 @@ function resolveBaselines(argv: Argv): Pick<StudySpec, "breakwalk" | "tempering"
     beta = [parts[0], parts[1]];
   }
   return {
+    external: parseExternalOption(argv.external),
     breakwalk: { rule: rule as "poly" | "exp" | null, cb, eps, capPerVariable: Number(bf[1]) },
     tempering: { replicas: numberOption(argv, "tempering-replicas") as number, sweeps, beta },
   };

@@ -17,6 +17,7 @@ import { writeFileAtomic } from "./files.js";
 import { mergeExact, planSlices } from "../solvers/exhaustive.js";
 import { materialise } from "./families/registry.js";
 import { costTolerance } from "./model/problem.js";
+import { FLOOR_LIMIT_MS, measureStartupFloor, ProcessSlots, runExternalCell } from "./external-solver.js";
 
 /** How a run is carried out (not part of the study's identity). */
 export interface RunOptions {
@@ -126,11 +127,18 @@ export async function runStudy(spec: StudySpec, options: RunOptions): Promise<Ru
   process.on("SIGTERM", onSignal);
 
   const pool = new WorkerPool(options.workers);
+  // External solvers: at most --workers processes at once, and each command's start-up floor measured once.
+  const processSlots = new ProcessSlots(options.workers);
+  const floors = new Map<string, number | null>();
+  for (const ext of spec.external ?? []) {
+    const kind = spec.family === "ksat" || spec.family === "cnf" ? "cnf" : "ising";
+    floors.set(ext.name, (await measureStartupFloor(ext, kind, 5, Math.min(FLOOR_LIMIT_MS, options.cellLimitMs ?? Infinity))).floor_ns);
+  }
   const record = (r: JournalRecord): void => {
     journal.append(r);
     done.set(r.key, r);
     state.done++;
-    if (r.status === "error") state.errors++;
+    if (r.status === "error" || r.status === "wrong") state.errors++; // a wrong external answer fails the run too
     if (r.status === "censored") state.censored++;
     options.progress.tick(r.key);
   };
@@ -208,6 +216,21 @@ export async function runStudy(spec: StudySpec, options: RunOptions): Promise<Ru
       if (cell.method === "walk" && truth.optimum > 0) {
         return rec({ status: "skipped", message: "not applicable: unsatisfiable, and Schöning's walk only finds models" });
       }
+      // --- external solver binaries (issue 12) ---
+      const external = spec.external?.find((e) => e.name === cell.method);
+      if (external) {
+        return withStopFlag(async (flag) => {
+          try {
+            const problem = materialise(ctxOf(inst)).problem;
+            const x = await runExternalCell(external, problem, truth.optimum as number, costTolerance(problem), spec.trials, cell.seed, flag,
+              options.cellLimitMs, processSlots, floors.get(external.name) ?? null);
+            return rec({ status: x.status, trials: x.trials, successes: x.successes, work: x.work, wall_ns: x.wall_ns, message: x.message, details: x.details });
+          } catch (e) {
+            return rec({ message: messageOf(e) });
+          }
+        });
+      }
+      // --- end external ---
       if (cell.method === "breakwalk" && truth.optimum > 0) {
         return rec({ status: "skipped", message: "not applicable: unsatisfiable, and breakwalk only finds models" });
       }

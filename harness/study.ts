@@ -31,6 +31,8 @@ export interface StudySpec {
   readonly breakwalk: { readonly rule: "poly" | "exp" | null; readonly cb: number | null; readonly eps: number | null; readonly capPerVariable: number };
   /** Tempering: replicas, rounds per trial (one run each), and the HOT:COLD range (null = instance-derived). */
   readonly tempering: { readonly replicas: number; readonly sweeps: ReadonlyArray<number>; readonly beta: readonly [number, number] | null };
+  /** External solver binaries (`--external NAME=COMMAND`), one run cell each per instance (run length 0). */
+  readonly external: ReadonlyArray<{ readonly name: string; readonly command: string }>;
   readonly predictors: ReadonlyArray<string>;
   readonly spectral: { readonly bValues: ReadonlyArray<number>; readonly eta: number };
   readonly costModel: {
@@ -110,6 +112,7 @@ export function cellsOfInstance(spec: StudySpec, inst: InstanceRef): Cell[] {
     if (solver === "breakwalk" && isCnf) cells.push(runCell(spec, inst, "breakwalk", Math.round(spec.breakwalk.capPerVariable * inst.n)));
     if (solver === "tempering") for (const sweeps of spec.tempering.sweeps) cells.push(runCell(spec, inst, "tempering", sweeps));
   }
+  for (const ext of spec.external ?? []) cells.push(runCell(spec, inst, ext.name, 0));
   if (spec.predictors.includes("spectral")) {
     for (const b of spec.spectral.bValues) {
       cells.push({ key: `spectral|${inst.n}|${inst.index}|${b}`, kind: "spectral", instance: inst, method: "spectral", runLength: b, seed: cellSeed(spec, inst, "spectral", b) });

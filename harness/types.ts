@@ -7,7 +7,8 @@
  * Cell status: finished normally, stopped by a budget (value is a lower bound), failed, or not applicable
  * (Schöning's walk on an unsatisfiable instance: it can only find models).
  */
-export type CellStatus = "ok" | "censored" | "error" | "skipped";
+/** "wrong": an external solver gave an answer that failed its check (never a success; the run exits with 1). */
+export type CellStatus = "ok" | "censored" | "error" | "skipped" | "wrong";
 
 /** One row of instances.csv: an instance and its exact ground truth. */
 export interface InstanceRow {

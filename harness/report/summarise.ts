@@ -229,7 +229,7 @@ function collect(runs: ReadonlyArray<RunRow>, predictions: ReadonlyArray<Predict
   };
   for (const row of runs) {
     if (row.status === "skipped") continue; // not applicable to this instance: no observation at all
-    if (row.status === "error") {
+    if (row.status === "error" || row.status === "wrong") {
       addError(row.family, "solver", row.solver, row.run_length, row.n, row.instance);
       continue;
     }
