@@ -90,8 +90,8 @@ export function breakwalkTrials(cnf: Cnf, options: BreakwalkOptions): BreakwalkR
  *
  * Draws of trial t (all from trialRng(seed, t)): the start as in the walk (⌈n/32⌉ `nextU32`, bit b of call i
  * giving variable 32·i + b); then per flip `below(U)` for the entry of the violated list (U entries) and one
- * `nextU32` = u choosing the first literal i of that clause with u·2^−32·Σf > Σ_{j<i} f... precisely the first
- * i whose cumulative weight exceeds u·2^−32·Σ_j f(break_j) (the last literal when rounding leaves none).
+ * `nextU32` = u choosing the first literal i of that clause whose cumulative weight Σ_{j≤i} f(break_j) exceeds
+ * u·2^−32·Σ_j f(break_j) (the last literal when rounding leaves none).
  * `work` = flips of finished trials; success = no violated clause (never with an empty clause in the input).
  */
 export function breakwalkCompiled(f: CompiledCnf, options: BreakwalkOptions): BreakwalkResult {

@@ -14,9 +14,9 @@
  *
  * Success (as for the annealer): any replica reaches the target cost at any point of the trial; every trial runs
  * its full `sweeps` rounds, so it costs sweeps·R·n spin-update attempts (the `work`). Trial t draws only from
- * trialRng(seed, t) (solvers/walk.ts): the R starts in replica order, then the sweeps in temperature order, then
- * one `nextU32` per exchange attempt with a positive exponent... precisely, per attempt whose exponent
- * x = (β_r − β_{r+1})(E_r − E_{r+1}) is negative (accepted when u·2^−32 < exp(x)); x ≥ 0 accepts without a draw.
+ * trialRng(seed, t) (solvers/walk.ts): the R starts in replica order, then each round the sweeps in temperature
+ * order, then one `nextU32` = u per exchange attempt whose exponent x = (β_r − β_{r+1})(E_r − E_{r+1}) is negative
+ * (accepted when u·2^−32 < exp(x)); x ≥ 0 accepts without a draw.
  *
  * Memory: one engine per replica (for dense Ising models R copies of the n×n coupling matrix).
  */
