@@ -66,3 +66,17 @@ export interface PredictionRow {
   /** Predictor-specific parts (theta, k_star, rounds, gap, …), serialised as their own columns. */
   [extra: string]: string | number | boolean | null;
 }
+
+/**
+ * A run-length distribution (RLD): flips to solution per trial of a randomised solver on one instance, a trial not
+ * solved within its cap censored at the cap (solvers/breakwalk.ts and walk-run-length.ts make them; the statistics
+ * that follow from one are in harness/stats/run-length.ts).
+ */
+export interface RunLengths {
+  /** Flips of each trial: to the solution when solved, else the cap (the trial's full length). */
+  readonly flips: Float64Array;
+  /** 1 when the trial reached a solution within the cap, else 0 (censored). */
+  readonly solved: Uint8Array;
+  /** The cap every trial ran to at most (flips). */
+  readonly cap: number;
+}

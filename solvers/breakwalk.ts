@@ -6,7 +6,7 @@
  * violated clause uniformly, flip one of its variables with probability ∝ f(break), where break(v) counts the
  * clauses v alone satisfies; polynomial f(b) = (ε + b)^(−cb) or exponential f(b) = cb^(−b). No restarts inside
  * a trial: each trial records its flips to solution, censored at the cap (a run-length distribution, see
- * ./run-length.ts), from which the success probability and TTS at any cut-off follow.
+ * harness/stats/run-length.ts), from which the success probability and TTS at any cut-off follow.
  *
  * Defaults per clause length k ({@link defaultBreakwalkRule}): k ≤ 3 polynomial cb = 2.38, ε = 1; k = 4, 5, 6
  * exponential cb = 3.0, 3.6, 4.4; k ≥ 7 exponential cb = 4.4. These are the values attributed to the SAT 2012
@@ -19,12 +19,14 @@
  * updated incrementally by a flip in O(occurrences of the flipped variable); f comes from a table indexed by
  * break. For 3-SAT the authors' code computes breaks on the fly instead (scanning the picked clause's variables'
  * occurrences); we measured both on random 3-SAT n = 200 (same draws, interleaved runs on the loaded 2-core test
- * machine): cached 6.6–7.7e6, on the fly 5.0–6.0e6 flips per CPU-second, so every k uses the cached counts. Nothing is allocated per flip. Trial t draws only from trialRng(seed, t) (./walk.ts).
+ * machine): cached 6.6–7.7e6, on the fly 5.0–6.0e6 flips per CPU-second, so every k uses the cached counts. Nothing is allocated per flip. Trial t draws only from trialRng(seed, t)
+ * (./trial-seeds.ts).
  */
 import type { Cnf } from "../harness/model/cnf.js";
-import { stopRequested, type StopFlag, type TrialsResult } from "./types.js";
-import { compileCnf, trialKey, trialRng, type CompiledCnf } from "./walk.js";
-import type { RunLengths } from "./run-length.js";
+import { stopRequested, type StopFlag, type TrialsResult, type TrialsSolver } from "./types.js";
+import { compileCnf, type CompiledCnf } from "./compile-cnf.js";
+import { trialKey, trialRng } from "./trial-seeds.js";
+import type { RunLengths } from "../harness/types.js";
 
 /** The shape of f: polynomial (ε + b)^(−cb) or exponential cb^(−b). */
 export type BreakRule = "poly" | "exp";
@@ -294,3 +296,42 @@ function checkCount(name: string, value: number): void {
   if (!Number.isSafeInteger(value) || value < 0) throw new RangeError(`${name} must be an integer ≥ 0, got ${value}`);
 }
 
+/** Settings of breakwalk on the registry: the flip rule, nulls = the defaults for the formula's clause length. */
+export interface BreakwalkSettings {
+  readonly rule: BreakRule | null;
+  readonly cb: number | null;
+  readonly eps: number | null;
+}
+
+/**
+ * Breakwalk on the solver registry (solvers/registry.ts). Run length = the flip cap of a trial (`--breakwalk-flips`
+ * K·n); every trial reports its flips to solution (`stepsToSolution`, −1 when censored at the cap), so success and
+ * TTS at any shorter cut-off follow from one cell (harness/stats/run-length.ts).
+ */
+export const breakwalkSolver: TrialsSolver<BreakwalkSettings> = {
+  name: "breakwalk",
+  kind: "trials",
+  description: "focused local search, flip weight f(break) (Balint & Schöning 2012); records flips to solution per trial",
+  options: ["breakwalk-flips", "breakwalk-rule", "breakwalk-cb", "breakwalk-eps", "trials"],
+  runLengthUnit: "flips",
+  defaultFor: ["cnf"],
+  appliesTo: (target) => (target.kind === "cnf" ? null : `breakwalk applies to k-SAT/CNF families only, not '${target.family}'`),
+  skipReason: (truth) => (truth.optimum > 0 ? "not applicable: unsatisfiable, and breakwalk only finds models" : null),
+  runLengths: (n, study) => [Math.round(Number(study.options["breakwalk-flips"]) * n)],
+  settings: (study) => ({
+    rule: (study.options["breakwalk-rule"] as BreakRule | null) ?? null,
+    cb: (study.options["breakwalk-cb"] as number | null) ?? null,
+    eps: (study.options["breakwalk-eps"] as number | null) ?? null,
+  }),
+  run(problem, input) {
+    if (problem.kind !== "cnf") throw new Error("breakwalk applies to CNF instances only");
+    const s = input.settings;
+    const r = breakwalkTrials(problem.cnf, {
+      trials: input.trials, cap: input.runLength, seed: input.seed, stop: input.stop, firstTrial: 0,
+      rule: s.rule ?? undefined, cb: s.cb ?? undefined, eps: s.eps ?? undefined,
+    });
+    const steps = Array.from(r.runLengths.flips, (f, t) => (r.runLengths.solved[t] === 1 ? f : -1));
+    const rule = r.rule.rule === "poly" ? `poly cb=${r.rule.cb} eps=${r.rule.eps}` : `exp cb=${r.rule.cb}`;
+    return { trials: r.trials, successes: r.successes, work: r.work, best: r.best, censored: r.censored, stepsToSolution: steps, extra: { breakwalk_rule: rule } };
+  },
+};

@@ -6,7 +6,7 @@
  *
  * One trial: R replicas, each a uniformly random start, at inverse temperatures β_0 < … < β_{R−1} geometric
  * between a hot and a cold end (β_r = β_hot·(β_cold/β_hot)^(r/(R−1)); one replica runs at β_cold). Each round is
- * one Metropolis sweep of every replica at its temperature (the annealer's engines, solvers/anneal.ts: sequential
+ * one Metropolis sweep of every replica at its temperature (the annealer's engines, anneal-cnf.ts/anneal-ising.ts: sequential
  * sweep, single-spin flips), then exchange attempts between neighbouring temperatures r, r + 1, for r of one
  * parity, alternating even and odd from round to round (as Hukushima & Nemoto do), each accepted with probability
  * min(1, exp((β_r − β_{r+1})(E_r − E_{r+1}))). Exchanges swap which replica sits at which temperature, so no
@@ -14,17 +14,23 @@
  *
  * Success (as for the annealer): any replica reaches the target cost at any point of the trial; every trial runs
  * its full `sweeps` rounds, so it costs sweeps·R·n spin-update attempts (the `work`). Trial t draws only from
- * trialRng(seed, t) (solvers/walk.ts): the R starts in replica order, then each round the sweeps in temperature
+ * trialRng(seed, t) (solvers/trial-seeds.ts): the R starts in replica order, then each round the sweeps in temperature
  * order, then one `nextU32` = u per exchange attempt whose exponent x = (β_r − β_{r+1})(E_r − E_{r+1}) is negative
  * (accepted when u·2^−32 < exp(x)); x ≥ 0 accepts without a draw.
  *
- * Memory: one engine per replica (for dense Ising models R copies of the n×n coupling matrix).
+ * Memory: one engine per replica; the read-only tables of the model (the dense coupling matrix, the term lists) are
+ * shared by all of them (anneal-ising.ts), so a replica adds only its state.
+ *
+ * Temperature range: the annealer's instance-derived default (defaultBetaRange in anneal.ts, the acceptance-ratio
+ * rule: a typical uphill move accepted with 0.6 at the hot end, the smallest escape from a local minimum with
+ * 0.002 at the cold end), or `--tempering-temperature HOT:COLD`.
  */
 import type { Problem } from "../harness/model/problem.js";
 import type { Rng } from "../harness/random.js";
-import { ANNEAL_POLL_INTERVAL, makeEngine, pollStop, type Engine, type Poll } from "./anneal.js";
-import type { TrialsResult, StopFlag } from "./types.js";
-import { trialKey, trialRng } from "./walk.js";
+import { defaultBetaRange, makeEngine } from "./anneal.js";
+import { ANNEAL_POLL_INTERVAL, pollStop, type Engine, type Poll } from "./anneal-setup.js";
+import type { TrialsResult, StopFlag, TrialsSolver } from "./types.js";
+import { trialKey, trialRng } from "./trial-seeds.js";
 
 /** Options of {@link temperingTrials}. */
 export interface TemperingOptions {
@@ -195,3 +201,50 @@ export function temperingTrials(problem: Problem, options: TemperingOptions): Te
   }
   return { trials: done, successes, work: done * sweeps * replicas * ladder.n, best, censored, betas, exchangeAttempts: attempts, exchangeAccepts: accepts };
 }
+
+/** Settings of tempering on the registry. */
+export interface TemperingSettings {
+  /** Replicas R. */
+  readonly replicas: number;
+  /** Inverse temperatures [β_hot, β_cold] (1/cost unit), or null for the annealer's instance-derived range. */
+  readonly beta: readonly [number, number] | null;
+}
+
+/**
+ * Parallel tempering on the solver registry (solvers/registry.ts). Run length = rounds per trial; work = spin-update
+ * attempts (rounds·R·n). Reports the exchange acceptance rate of each neighbouring pair, hot end first
+ * (`exchangeAcceptance`; NaN for a pair never attempted), and the ladder's ends and size in `extra`.
+ */
+export const temperingSolver: TrialsSolver<TemperingSettings> = {
+  name: "tempering",
+  kind: "trials",
+  description: "parallel tempering (replica exchange): R Metropolis replicas on a geometric temperature ladder, neighbour swaps",
+  options: ["tempering-sweeps", "tempering-replicas", "tempering-temperature", "trials"],
+  runLengthUnit: "sweeps",
+  defaultFor: ["ising"],
+  appliesTo: () => null,
+  skipReason: () => null,
+  runLengths: (_n, study) => [...(study.options["tempering-sweeps"] as ReadonlyArray<number>)],
+  settings: (study) => ({
+    replicas: Number(study.options["tempering-replicas"]),
+    beta: (study.options["tempering-beta"] as readonly [number, number] | null) ?? null,
+  }),
+  prepare(problem, settings) {
+    if (settings.beta !== null) return settings;
+    const r = defaultBetaRange(problem);
+    return { replicas: settings.replicas, beta: [r.betaStart, r.betaEnd] };
+  },
+  run(problem, input) {
+    const s = input.settings.beta === null ? temperingSolver.prepare!(problem, input.settings) : input.settings;
+    const range = s.beta!;
+    const r = temperingTrials(problem, {
+      trials: input.trials, sweeps: input.runLength, replicas: s.replicas, betaHot: range[0], betaCold: range[1],
+      target: input.target, tolerance: input.tolerance, seed: input.seed, stop: input.stop, firstTrial: 0,
+    });
+    const rates = Array.from(r.exchangeAttempts, (a, i) => (a > 0 ? r.exchangeAccepts[i] / a : NaN));
+    return {
+      trials: r.trials, successes: r.successes, work: r.work, best: r.best, censored: r.censored,
+      exchangeAcceptance: rates, extra: { beta_start: range[0], beta_end: range[1], replicas: s.replicas },
+    };
+  },
+};

@@ -11,8 +11,9 @@
  */
 import type { Cnf } from "../harness/model/cnf.js";
 import { stopRequested, type StopFlag, type TrialsResult } from "./types.js";
-import { compileCnf, trialKey, trialRng, type CompiledCnf } from "./walk.js";
-import type { RunLengths } from "./run-length.js";
+import { compileCnf, type CompiledCnf } from "./compile-cnf.js";
+import { trialKey, trialRng } from "./trial-seeds.js";
+import type { RunLengths } from "../harness/types.js";
 
 /** Options of {@link walkRunLengths}. */
 export interface WalkRunLengthOptions {

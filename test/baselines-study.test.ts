@@ -62,6 +62,8 @@ describe("baselines in a study", () => {
       [["--family", "ksat", "--breakwalk-flips", "ten"], /--breakwalk-flips/],
       [["--family", "sk", "--solvers", "breakwalk"], /breakwalk applies to k-SAT/],
       [["--family", "sk", "--tempering-beta", "3:1"], /--tempering-beta/],
+      [["--family", "sk", "--tempering-temperature", "1:3"], /--tempering-temperature/],
+      [["--family", "sk", "--tempering-temperature", "3:1", "--tempering-beta", "0.3:1"], /--tempering-temperature/],
       [["--family", "ksat", "--external", "walk=foo {file}"], /--external/],
     ] as const) {
       const r = cli(["run", "--n", "8:8", "--instances", "1", ...args, "--out", join(dir, "bad")]);

@@ -14,9 +14,10 @@ import { parseDimacs } from "../harness/formats/dimacs.js";
 import { cnfFromClauses, violatedBy, type Cnf } from "../harness/model/cnf.js";
 import { Rng, deriveSeed } from "../harness/random.js";
 import { breakTable, breakwalkCompiled, breakwalkTrials, defaultBreakwalkRule } from "../solvers/breakwalk.js";
-import { compileCnf, trialKey, trialRng } from "../solvers/walk.js";
+import { compileCnf } from "../solvers/compile-cnf.js";
+import { trialKey, trialRng } from "../solvers/trial-seeds.js";
 import { walkRunLengths } from "../solvers/walk-run-length.js";
-import { medianFlips } from "../solvers/run-length.js";
+import { medianFlips } from "../harness/stats/run-length.js";
 
 function randomKSat(rng: Rng, n: number, m: number, k: number): Cnf {
   const clauses: number[][] = [];

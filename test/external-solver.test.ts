@@ -11,7 +11,7 @@ import { join } from "node:path";
 import { describe, expect, it } from "vitest";
 import { cnfFromClauses } from "../harness/model/cnf.js";
 import { isingFromTerms } from "../harness/model/ising.js";
-import { checkCnfAnswer, checkIsingAnswer, parseExternalOption, splitCommand } from "../harness/external-solver.js";
+import { checkCnfAnswer, checkIsingAnswer, parseExternalOption, splitCommand } from "../harness/engine/external-solver.js";
 import { cli, readCsv } from "./helpers/cli.js";
 
 // (x1 ∨ x2) ∧ (¬x1 ∨ x2) ∧ (¬x2 ∨ x3): models by brute force are x2 = x3 = 1, x1 free.

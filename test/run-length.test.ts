@@ -5,7 +5,7 @@
  * ln(5/6) = −0.182322, ln(1/3) = −1.098612, ln(1/6) = −1.791759, ln 0.5 = −0.693147).
  */
 import { describe, expect, it } from "vitest";
-import { bestCutoff, bestCutoffForSize, concatRunLengths, medianFlips, successAt, ttsAt, type RunLengths } from "../solvers/run-length.js";
+import { bestCutoff, bestCutoffForSize, concatRunLengths, medianFlips, successAt, ttsAt, type RunLengths } from "../harness/stats/run-length.js";
 
 const rld = (flips: number[], solved: number[], cap: number): RunLengths => ({ flips: Float64Array.from(flips), solved: Uint8Array.from(solved), cap });
 // Four trials: solved after 2, 5 and 5 flips, one censored at the cap of 10.

@@ -15,7 +15,7 @@ import { deriveSeed, Rng } from "../harness/random.js";
 import { annealTrials, defaultBetaRange } from "../solvers/anneal.js";
 import { exhaustiveSlice, mergeExact, planSlices } from "../solvers/exhaustive.js";
 import { ReplicaLadder, temperingLadder, temperingTrials } from "../solvers/tempering.js";
-import { trialRng } from "../solvers/walk.js";
+import { trialRng } from "../solvers/trial-seeds.js";
 import { sk } from "./helpers/instances.js";
 
 /** Energy levels of all 2^n states (levels within 1e−9 merged) and their degeneracies. */

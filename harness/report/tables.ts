@@ -3,14 +3,13 @@
  * predictors are evaluated here from the recorded ground truth and measured success probabilities: they
  * are pure functions of those, so they need no cells of their own and change when the journal does.
  */
-import type { JournalRecord, RunRecord, SpectralRecord, TruthRecord } from "../journal.js";
-import type { StudySpec } from "../study.js";
+import { RUN_RECORD_FIELDS, type JournalRecord, type RunRecord, type SpectralRecord, type TruthRecord } from "../engine/journal.js";
+import type { StudySpec } from "../engine/study.js";
 import type { InstanceRow, PredictionRow, RunRow } from "../types.js";
 import { ttsFromCounts } from "../stats/tts.js";
-import { groverKnown, groverUnknown } from "../predict/grover.js";
-import { minFinding } from "../predict/min-finding.js";
-import { amplifyTrial } from "../predict/amplify.js";
-import { cutValue } from "../families/maxcut.js";
+import { bestCutoff, medianFlips, runLengthsFromSteps } from "../stats/run-length.js";
+import { PREDICTORS, predictorNamed } from "../predict/registry.js";
+import { familyNamed } from "../families/registry.js";
 
 /** The three per-observation tables. */
 export interface Tables {
@@ -41,8 +40,7 @@ export function buildTables(spec: StudySpec, records: ReadonlyArray<JournalRecor
     optimum: t.optimum,
     degeneracy: t.degeneracy,
     satisfiable: t.optimum === null || !isCnf(spec) ? null : t.optimum === 0,
-    // MaxCut: the optimum energy Σ_edges s_i s_j as the largest cut, (edges − E)/2.
-    ...(spec.family === "maxcut" && t.optimum !== null ? { max_cut: cutValue(Number(t.meta.edges), t.optimum) } : {}),
+    ...(familyNamed(spec.family).describe?.(t.meta, t.optimum) ?? {}),
     mean_cost: t.mean,
     status: t.status,
   }));
@@ -63,28 +61,27 @@ export function buildTables(spec: StudySpec, records: ReadonlyArray<JournalRecor
   for (const t of truths) {
     if (t.status !== "ok" || t.optimum === null || t.degeneracy === null) continue;
     const base = { family: spec.family, n: t.n, instance: t.index };
-    const satisfiable = isCnf(spec) && t.optimum === 0;
-    for (const predictor of spec.predictors) {
-      if (predictor === "grover") predictions.push(prediction(base, predictor, groverKnown(t.n, t.degeneracy)));
-      if (predictor === "grover-unknown") predictions.push(prediction(base, predictor, groverUnknown(t.n, t.degeneracy)));
-      // Minimum finding answers the optimisation question: spin families, and CNF instances with no model.
-      if (predictor === "min-finding" && !satisfiable) {
-        predictions.push(prediction(base, predictor, minFinding(t.n)));
-      }
+    const view = { n: t.n, kind: familyNamed(spec.family).kind, optimum: t.optimum, degeneracy: t.degeneracy };
+    for (const name of spec.predictors) {
+      const parts = predictorNamed(name).fromTruth?.(view) ?? null;
+      if (parts !== null) predictions.push(prediction(base, name, parts));
     }
   }
   for (const r of runsRec) {
-    const predictor = `amplified-${r.solver}`;
-    if (!spec.predictors.includes(predictor) || r.status === "error" || r.trials === 0) continue;
+    const predictor = PREDICTORS.find((p) => p.amplifies === r.solver && p.fromTrials !== undefined && spec.predictors.includes(p.name));
+    if (!predictor || r.status === "error" || r.trials === 0) continue;
     const row = runRow(spec, r);
-    const parts = amplifyTrial(row.p ?? 0, row.p_low ?? undefined, row.p_high ?? undefined, row.work_per_trial ?? undefined);
-    predictions.push({ ...prediction({ family: spec.family, n: r.n, instance: r.index }, predictor, parts), run_length: r.run_length });
+    const parts = predictor.fromTrials!({
+      n: r.n, solver: r.solver, runLength: r.run_length, p: row.p ?? 0, pLow: row.p_low ?? undefined, pHigh: row.p_high ?? undefined,
+      workPerTrial: row.work_per_trial ?? undefined,
+    });
+    predictions.push(prediction({ family: spec.family, n: r.n, instance: r.index }, predictor.name, parts));
   }
   for (const s of spectralRec) {
     const truth = truthOf.get(`${s.n}|${s.index}`);
     if (!truth) continue;
     predictions.push({
-      family: spec.family, n: s.n, instance: s.index, predictor: "spectral", status: s.status,
+      family: spec.family, n: s.n, instance: s.index, predictor: s.predictor ?? "spectral", status: s.status,
       queries: null, queries_log2: null, queries_low: null, queries_high: null,
       ...s.row, wall_ns: s.wall_ns, message: s.message,
     } as PredictionRow);
@@ -112,7 +109,7 @@ function markBestB(predictions: PredictionRow[]): void {
 }
 
 function isCnf(spec: StudySpec): boolean {
-  return spec.family === "ksat" || spec.family === "cnf";
+  return familyNamed(spec.family).kind === "cnf";
 }
 
 function runRow(spec: StudySpec, r: RunRecord): RunRow {
@@ -129,9 +126,39 @@ function runRow(spec: StudySpec, r: RunRecord): RunRow {
     tts_ns: finite(tts?.tts), tts_ns_low: finite(tts?.tts_low), tts_ns_high: finite(tts?.tts_high),
     tts_work: finite(ttsWork?.tts),
     tts_work_low: finite(ttsWork?.tts_low),
-    ...(r.details ?? {}),
+    ...extraColumns(r),
     message: r.message,
   };
+}
+
+/**
+ * The solver-specific columns of a run row: the solver's own extra results (every scalar field of the record the
+ * report does not treat itself), a summary of the run-length distribution when the solver recorded one (median
+ * flips to solution, and the restart cut-off minimising TTS with its success probability and TTS, in flips:
+ * harness/stats/run-length.ts), and tempering's exchange acceptance rates (one `;`-separated column, hot end first,
+ * and their minimum: a pair that never swaps cuts the ladder in two).
+ */
+function extraColumns(r: RunRecord): Record<string, Cell> {
+  const out: Record<string, Cell> = {};
+  for (const [key, value] of Object.entries(r)) {
+    if (RUN_RECORD_FIELDS.has(key)) continue;
+    if (value === null || typeof value === "number" || typeof value === "string" || typeof value === "boolean") out[key] = value;
+  }
+  if (r.steps_to_solution !== undefined) {
+    const rld = runLengthsFromSteps(r.steps_to_solution, r.run_length);
+    const median = medianFlips(rld);
+    const best = bestCutoff(rld);
+    out.rld_median_flips = Number.isFinite(median) ? median : null;
+    out.rld_best_cutoff = best?.cutoff ?? null;
+    out.rld_best_p = best?.p ?? null;
+    out.rld_best_tts_flips = best?.tts ?? null;
+  }
+  if (r.exchange_acceptance !== undefined) {
+    const rates = r.exchange_acceptance.map((x) => (x === null || !Number.isFinite(x) ? null : x));
+    out.exchange_acceptance = rates.map((x) => (x === null ? "" : x.toFixed(4))).join(";");
+    out.exchange_acceptance_min = rates.length > 0 && rates.every((x) => x !== null) ? Math.min(...(rates as number[])) : null;
+  }
+  return out;
 }
 
 function prediction(base: { family: string; n: number; instance: number }, predictor: string, parts: object): PredictionRow {

@@ -17,10 +17,11 @@ import type { Cnf } from "../../harness/model/cnf.js";
 import type { Problem } from "../../harness/model/problem.js";
 import { annealTrials, defaultBetaRange } from "../../solvers/anneal.js";
 import { breakwalkCompiled } from "../../solvers/breakwalk.js";
-import { medianFlips } from "../../solvers/run-length.js";
+import { medianFlips } from "../../harness/stats/run-length.js";
 import { temperingTrials } from "../../solvers/tempering.js";
 import { walkRunLengthsCompiled } from "../../solvers/walk-run-length.js";
-import { compileCnf, walkCompiled } from "../../solvers/walk.js";
+import { walkCompiled } from "../../solvers/walk.js";
+import { compileCnf } from "../../solvers/compile-cnf.js";
 
 interface Rate {
   readonly wall: number;

@@ -5,7 +5,7 @@
  * {@link SYNC_EVERY_MS} ms, whichever comes first (so a power cut loses at most that much).
  */
 import { closeSync, existsSync, fsyncSync, openSync, readFileSync, truncateSync, writeSync } from "node:fs";
-import type { CellStatus } from "./types.js";
+import type { CellStatus } from "../types.js";
 
 /** fsync batch size (records). */
 export const SYNC_EVERY_RECORDS = 32;
@@ -45,15 +45,34 @@ export interface RunRecord extends RecordBase {
   readonly best: number | null;
   readonly beta_start: number | null;
   readonly beta_end: number | null;
-  /** Solver-specific runs.csv columns (breakwalk, tempering); absent for the others. */
-  readonly details?: Readonly<Record<string, number | string | null>>;
-  /** Breakwalk's run-length distribution: flips to solution per trial, −1 where censored at the cap. */
-  readonly rld?: ReadonlyArray<number>;
+  /**
+   * Run-length distribution (solvers that report one, e.g. breakwalk): steps to solution of each finished trial,
+   * −1 where the trial was censored at the run length.
+   */
+  readonly steps_to_solution?: ReadonlyArray<number>;
+  /** Tempering: exchange acceptance rate per neighbouring pair of temperatures, hot end first (null: never tried). */
+  readonly exchange_acceptance?: ReadonlyArray<number | null>;
+  // Further scalar fields come from a solver's `extra` (solvers/types.ts) or an external cell (start-up floor).
 }
 
-/** Spectral numerics at one b. */
+/**
+ * The fields every run record has and the report treats itself; any other scalar field of a run record is a
+ * solver's extra result, which runs.csv shows as a column of its own.
+ */
+export const RUN_RECORD_FIELDS: ReadonlySet<string> = new Set([
+  "key", "n", "index", "file", "status", "wall_ns", "message", "kind", "solver", "run_length", "trials", "successes", "work",
+  "best", "beta_start", "beta_end", "steps_to_solution", "exchange_acceptance",
+]);
+
+/**
+ * A predictor's worker-side numerics at one parameter value. The kind and the field `b` keep the names of the
+ * spectral method, the first such predictor, so that older journals resume; `predictor` is absent for it.
+ */
 export interface SpectralRecord extends RecordBase {
   readonly kind: "spectral";
+  /** Predictor name; absent means "spectral". */
+  readonly predictor?: string;
+  /** The cell's parameter value (b for the spectral method). */
   readonly b: number;
   readonly row: Readonly<Record<string, number | string | boolean | null>>;
 }

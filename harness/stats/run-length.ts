@@ -12,17 +12,10 @@
  *
  * Pure: no clock, file or console.
  */
-import { ttsTrials, TTS_TARGET } from "../harness/stats/tts.js";
+import { ttsTrials, TTS_TARGET } from "./tts.js";
+import type { RunLengths } from "../types.js";
 
-/** Flips to solution per trial; a trial not solved within its cap is censored at the cap. */
-export interface RunLengths {
-  /** Flips of each trial: to the solution when solved, else the cap (the trial's full length). */
-  readonly flips: Float64Array;
-  /** 1 when the trial reached a solution within the cap, else 0 (censored). */
-  readonly solved: Uint8Array;
-  /** The cap every trial ran to at most (flips). */
-  readonly cap: number;
-}
+export type { RunLengths } from "../types.js";
 
 /** An RLD summary at one cut-off. */
 export interface CutoffPoint {
@@ -114,6 +107,20 @@ export function medianFlips(rld: RunLengths): number {
   if (n === 0) return NaN;
   const v = Array.from(rld.flips, (f, t) => (rld.solved[t] === 1 ? f : Infinity)).sort((a, b) => a - b);
   return n % 2 === 1 ? v[(n - 1) / 2] : (v[n / 2 - 1] + v[n / 2]) / 2;
+}
+
+/**
+ * The RLD of a cell from its per-trial steps to solution as solvers report them (TrialsOutcome.stepsToSolution,
+ * solvers/types.ts: −1 for a trial not solved within `cap`).
+ */
+export function runLengthsFromSteps(steps: ReadonlyArray<number>, cap: number): RunLengths {
+  const flips = new Float64Array(steps.length);
+  const solved = new Uint8Array(steps.length);
+  for (let t = 0; t < steps.length; t++) {
+    solved[t] = steps[t] >= 0 ? 1 : 0;
+    flips[t] = steps[t] >= 0 ? steps[t] : cap;
+  }
+  return { flips, solved, cap };
 }
 
 /** Concatenates RLDs (for trials split over calls); the cap is the smallest. */

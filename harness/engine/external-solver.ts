@@ -24,13 +24,15 @@ import { spawn } from "node:child_process";
 import { mkdtempSync, rmSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
-import { writeDimacs } from "./formats/dimacs.js";
-import { writeCouplingList } from "./formats/coupling-list.js";
-import type { Cnf } from "./model/cnf.js";
-import { isingFromTerms, type Ising } from "./model/ising.js";
-import type { Problem } from "./model/problem.js";
-import { InputError } from "./errors.js";
-import { deriveSeed } from "./random.js";
+import { writeDimacs } from "../formats/dimacs.js";
+import { writeCouplingList } from "../formats/coupling-list.js";
+import type { Cnf } from "../model/cnf.js";
+import { isingFromTerms, type Ising } from "../model/ising.js";
+import type { Problem } from "../model/problem.js";
+import { InputError } from "../errors.js";
+import { deriveSeed } from "../random.js";
+import { SOLVER_NAMES } from "../../solvers/registry.js";
+import { energyFromTerms } from "../../solvers/anneal-ising.js";
 
 /** One `--external NAME=COMMAND`. */
 export interface ExternalSolver {
@@ -38,8 +40,8 @@ export interface ExternalSolver {
   readonly command: string;
 }
 
-/** Names an external solver may not take (the built-in solvers and predictors' prefixes). */
-const RESERVED = new Set(["exhaustive", "walk", "breakwalk", "anneal", "tempering"]);
+/** Names an external solver may not take: the registered solvers' (they share the `solver` column and cell keys). */
+const RESERVED: ReadonlySet<string> = new Set(SOLVER_NAMES);
 
 /** Parses the repeatable option; bad values are {@link InputError}s naming the option. */
 export function parseExternalOption(raw: unknown): ExternalSolver[] {
@@ -235,19 +237,9 @@ export function checkIsingAnswer(model: Ising, stdout: string, exitCode: number,
       spins[i] = t === "-1" ? -1 : 1;
     }
   }
-  const energy = isingEnergy(model, spins);
+  const energy = energyFromTerms(model, spins);
   if (energy < optimum - tolerance) return { outcome: "wrong", message: `energy ${energy} is below the exact optimum ${optimum} (report this)` };
   return energy <= optimum + tolerance ? { outcome: "solved", message: "" } : { outcome: "unsolved", message: `energy ${energy} above the optimum ${optimum}` };
-}
-
-function isingEnergy(model: Ising, s: Float64Array): number {
-  let e = model.constant;
-  for (let t = 0; t + 1 < model.termOffsets.length; t++) {
-    let p = 1;
-    for (let i = model.termOffsets[t]; i < model.termOffsets[t + 1]; i++) p *= s[model.termSpins[i]];
-    e -= model.coefficients[t] * p;
-  }
-  return e;
 }
 
 /** The trivial instance of the start-up floor: one variable and the clause (x1), or one spin with a field. */
