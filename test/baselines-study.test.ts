@@ -65,6 +65,7 @@ describe("baselines in a study", () => {
       [["--family", "sk", "--tempering-temperature", "1:3"], /--tempering-temperature/],
       [["--family", "sk", "--tempering-temperature", "3:1", "--tempering-beta", "0.3:1"], /--tempering-temperature/],
       [["--family", "ksat", "--external", "walk=foo {file}"], /--external/],
+      [["--family", "ksat", "--tempering-temperature", "1:3"], /--tempering-temperature/], // checked without tempering too
     ] as const) {
       const r = cli(["run", "--n", "8:8", "--instances", "1", ...args, "--out", join(dir, "bad")]);
       expect(r.code).toBe(2);

@@ -232,53 +232,51 @@ export function resolveStudy(argv: Argv): StudySpec {
 }
 
 /**
- * Breakwalk's and tempering's options (each only when the solver is in the study, so that the spec of a study
- * without it keeps its text) and the external solver binaries (only when given).
+ * Breakwalk's and tempering's options, always checked but kept in the spec only when the solver is in the study (so
+ * that the spec.json of a study without it keeps its text), and the external solver binaries (only when given).
  */
 function resolveBaselines(argv: Argv, solvers: ReadonlyArray<string>): Pick<StudySpec, "breakwalk" | "tempering" | "external"> {
-  const out: { -readonly [K in "breakwalk" | "tempering" | "external"]?: StudySpec[K] } = {};
-  if (solvers.includes("breakwalk")) {
-    const rule = argv["breakwalk-rule"] === undefined ? null : String(argv["breakwalk-rule"]);
-    if (rule !== null && rule !== "poly" && rule !== "exp") throw new InputError(`--breakwalk-rule: '${rule}' is not poly or exp`);
-    const cb = optionalNumber(argv, "breakwalk-cb");
-    if (cb !== null && !(cb > 0)) throw new InputError(`--breakwalk-cb: must be positive, got ${cb}`);
-    const eps = optionalNumber(argv, "breakwalk-eps");
-    if (eps !== null && !(eps > 0)) throw new InputError(`--breakwalk-eps: must be positive, got ${eps}`);
-    const flipsText = String(argv["breakwalk-flips"] ?? spec("breakwalk-flips").default);
-    const bf = /^(\d+(?:\.\d+)?)n$/.exec(flipsText);
-    if (!bf || !(Number(bf[1]) > 0)) throw new InputError(`--breakwalk-flips: '${flipsText}' is not of the form Kn with K > 0 (e.g. 1000n)`);
-    out.breakwalk = { rule, cb, eps, flipsPerVariable: Number(bf[1]) };
+  // Every option is checked (a bad value is refused even when its solver is not in the study, as for the annealer's).
+  const rule = argv["breakwalk-rule"] === undefined ? null : String(argv["breakwalk-rule"]);
+  if (rule !== null && rule !== "poly" && rule !== "exp") throw new InputError(`--breakwalk-rule: '${rule}' is not poly or exp`);
+  const cb = optionalNumber(argv, "breakwalk-cb");
+  if (cb !== null && !(cb > 0)) throw new InputError(`--breakwalk-cb: must be positive, got ${cb}`);
+  const eps = optionalNumber(argv, "breakwalk-eps");
+  if (eps !== null && !(eps > 0)) throw new InputError(`--breakwalk-eps: must be positive, got ${eps}`);
+  const flipsText = String(argv["breakwalk-flips"] ?? spec("breakwalk-flips").default);
+  const bf = /^(\d+(?:\.\d+)?)n$/.exec(flipsText);
+  if (!bf || !(Number(bf[1]) > 0)) throw new InputError(`--breakwalk-flips: '${flipsText}' is not of the form Kn with K > 0 (e.g. 1000n)`);
+  const sweeps = numberList(String(argv["tempering-sweeps"] ?? spec("tempering-sweeps").default), "--tempering-sweeps").map((s) => {
+    if (!Number.isInteger(s)) throw new InputError(`--tempering-sweeps: '${s}' is not a whole number`);
+    return s;
+  });
+  if (argv["tempering-temperature"] !== undefined && argv["tempering-beta"] !== undefined) {
+    throw new InputError(`--tempering-temperature: give the range once (not also as --tempering-beta)`);
   }
-  if (solvers.includes("tempering")) {
-    const sweeps = numberList(String(argv["tempering-sweeps"] ?? spec("tempering-sweeps").default), "--tempering-sweeps").map((s) => {
-      if (!Number.isInteger(s)) throw new InputError(`--tempering-sweeps: '${s}' is not a whole number`);
-      return s;
-    });
-    if (argv["tempering-temperature"] !== undefined && argv["tempering-beta"] !== undefined) {
-      throw new InputError(`--tempering-temperature: give the range once (not also as --tempering-beta)`);
+  let beta: [number, number] | null = null;
+  if (argv["tempering-temperature"] !== undefined) {
+    const text = String(argv["tempering-temperature"]);
+    const parts = text.split(":").map(Number);
+    if (parts.length !== 2 || !parts.every((x) => Number.isFinite(x) && x > 0) || parts[1] > parts[0]) {
+      throw new InputError(`--tempering-temperature: '${text}' is not HOT:COLD with HOT ≥ COLD > 0 (hot end first)`);
     }
-    let beta: [number, number] | null = null;
-    if (argv["tempering-temperature"] !== undefined) {
-      const text = String(argv["tempering-temperature"]);
-      const parts = text.split(":").map(Number);
-      if (parts.length !== 2 || !parts.every((x) => Number.isFinite(x) && x > 0) || parts[1] > parts[0]) {
-        throw new InputError(`--tempering-temperature: '${text}' is not HOT:COLD with HOT ≥ COLD > 0 (hot end first)`);
-      }
-      beta = [1 / parts[0], 1 / parts[1]];
-    }
-    if (argv["tempering-beta"] !== undefined) {
-      const text = String(argv["tempering-beta"]);
-      const parts = text.split(":").map(Number);
-      if (parts.length !== 2 || !parts.every((x) => Number.isFinite(x) && x > 0) || parts[1] < parts[0]) {
-        throw new InputError(`--tempering-beta: '${text}' is not HOT:COLD with 0 < HOT ≤ COLD (inverse temperatures)`);
-      }
-      beta = [parts[0], parts[1]];
-    }
-    out.tempering = { replicas: numberOption(argv, "tempering-replicas") as number, sweeps, beta };
+    beta = [1 / parts[0], 1 / parts[1]];
   }
+  if (argv["tempering-beta"] !== undefined) {
+    const text = String(argv["tempering-beta"]);
+    const parts = text.split(":").map(Number);
+    if (parts.length !== 2 || !parts.every((x) => Number.isFinite(x) && x > 0) || parts[1] < parts[0]) {
+      throw new InputError(`--tempering-beta: '${text}' is not HOT:COLD with 0 < HOT ≤ COLD (inverse temperatures)`);
+    }
+    beta = [parts[0], parts[1]];
+  }
+  const replicas = numberOption(argv, "tempering-replicas") as number;
   const external = parseExternalOption(argv.external);
-  if (external.length > 0) out.external = external;
-  return out;
+  return {
+    ...(solvers.includes("breakwalk") ? { breakwalk: { rule, cb, eps, flipsPerVariable: Number(bf[1]) } } : {}),
+    ...(solvers.includes("tempering") ? { tempering: { replicas, sweeps, beta } } : {}),
+    ...(external.length > 0 ? { external } : {}),
+  };
 }
 
 /** A numeric option that has no default: null when not given. */
