@@ -7,7 +7,8 @@
  * Cell status: finished normally, stopped by a budget (value is a lower bound), failed, or not applicable
  * (Schöning's walk on an unsatisfiable instance: it can only find models).
  */
-export type CellStatus = "ok" | "censored" | "error" | "skipped";
+/** "wrong": an external solver gave an answer that failed its check (never a success; the run exits with 1). */
+export type CellStatus = "ok" | "censored" | "error" | "skipped" | "wrong";
 
 /** One row of instances.csv: an instance and its exact ground truth. */
 export interface InstanceRow {
@@ -69,4 +70,18 @@ export interface PredictionRow {
   queries_high: number | null;
   /** Predictor-specific parts (theta, k_star, rounds, gap, …), serialised as their own columns. */
   [extra: string]: string | number | boolean | null;
+}
+
+/**
+ * A run-length distribution (RLD): flips to solution per trial of a randomised solver on one instance, a trial not
+ * solved within its cap censored at the cap (solvers/breakwalk.ts and walk-run-length.ts make them; the statistics
+ * that follow from one are in harness/stats/run-length.ts).
+ */
+export interface RunLengths {
+  /** Flips of each trial: to the solution when solved, else the cap (the trial's full length). */
+  readonly flips: Float64Array;
+  /** 1 when the trial reached a solution within the cap, else 0 (censored). */
+  readonly solved: Uint8Array;
+  /** The cap every trial ran to at most (flips). */
+  readonly cap: number;
 }

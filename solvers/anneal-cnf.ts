@@ -183,7 +183,11 @@ export class CnfEngine implements Engine {
     }
   }
 
-  run(poll: Poll): boolean {
+  current(): number {
+    return this.cost;
+  }
+
+  run(poll: Poll, from = 0, to = this.betas.length): boolean {
     // The flip is written out here rather than calling flip(), so that everything stays in locals for the
     // whole trial. `| 0` marks the values read from fields as int32 once, here (read from fields, they were
     // untagged and checked at every use inside the loops, as the optimised code showed; measured with valgrind
@@ -208,7 +212,7 @@ export class CnfEngine implements Engine {
     let best = this.best;
     let hit = this.hit;
     let stopped = false;
-    for (let s = 0; s < betas.length; s++) {
+    for (let s = from; s < to; s++) {
       if (pollStop(poll)) {
         stopped = true;
         break;

@@ -83,10 +83,13 @@ export interface Engine {
    */
   start(rng: Rng, threshold: number): void;
   /**
-   * The prepared sweeps from the started state: before each sweep `poll` is checked (and advanced by n after
-   * it). Returns false when the stop flag stopped the trial.
+   * The prepared sweeps from the started state (sweeps `from` .. `to` − 1 of the prepared schedule, default all;
+   * tempering, solvers/tempering.ts, runs one sweep at a time): before each sweep `poll` is checked (and advanced
+   * by n after it). Returns false when the stop flag stopped the trial.
    */
-  run(poll: Poll): boolean;
+  run(poll: Poll, from?: number, to?: number): boolean;
+  /** Cost of the current state (violated clauses, or the running Ising energy, exact to rounding). */
+  current(): number;
   /** Cost change of flipping variable i in the current state. */
   delta(i: number): number;
   /** Flips variable i unconditionally. */

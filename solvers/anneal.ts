@@ -196,7 +196,8 @@ export function defaultBetaRange(problem: Problem): { betaStart: number; betaEnd
   return { betaStart, betaEnd, temperatureHot: 1 / betaStart, temperatureCold: 1 / betaEnd, rule };
 }
 
-function makeEngine(problem: Problem): Engine {
+/** The fastest engine for a problem (see {@link annealTrials}); tempering (solvers/tempering.ts) runs one per replica. */
+export function makeEngine(problem: Problem): Engine {
   if (problem.kind === "cnf") return new CnfEngine(compileCnf(problem.cnf));
   const model = problem.ising;
   const n = model.spins;
@@ -226,6 +227,7 @@ export const annealSolver: TrialsSolver<AnnealSettings> = {
   description: "Metropolis simulated annealing with single flips, one run per sweep count",
   options: ["anneal-sweeps", "anneal-cooling", "anneal-temperature", "trials"],
   runLengthUnit: "sweeps",
+  defaultFor: ["cnf", "ising"],
   appliesTo: () => null,
   skipReason: () => null,
   runLengths: (_n, study) => [...(study.options["anneal-sweeps"] as ReadonlyArray<number>)],

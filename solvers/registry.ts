@@ -4,7 +4,9 @@
  * `--help`, the study's cells, the worker and the tables then know it.
  */
 import { annealSolver } from "./anneal.js";
+import { breakwalkSolver } from "./breakwalk.js";
 import { exhaustiveSolver } from "./exhaustive.js";
+import { temperingSolver } from "./tempering.js";
 import type { ExactSolver, ProblemKind, Solver, TrialsSolver } from "./types.js";
 import { walkSolver } from "./walk.js";
 
@@ -12,11 +14,21 @@ import { walkSolver } from "./walk.js";
 export const SOLVERS: ReadonlyArray<Solver> = [
   exhaustiveSolver,
   walkSolver,
+  breakwalkSolver,
   annealSolver,
+  temperingSolver,
 ];
 
 /** Names of every registered solver. */
 export const SOLVER_NAMES: ReadonlyArray<string> = SOLVERS.map((s) => s.name);
+
+/**
+ * The default `--solvers` of a study on a model kind: the exact ground-truth solvers (they always run), then every
+ * randomised solver whose `defaultFor` names the kind, in registry order.
+ */
+export function defaultSolvers(kind: ProblemKind): string[] {
+  return SOLVERS.filter((s) => s.kind === "exact" || (s.defaultFor ?? []).includes(kind)).map((s) => s.name);
+}
 
 /** The randomised solver of that name; throws (an internal error: names are validated at the edge). */
 export function trialsSolverNamed(name: string): TrialsSolver<any> { // eslint-disable-line @typescript-eslint/no-explicit-any

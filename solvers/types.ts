@@ -132,6 +132,11 @@ export interface TrialsSolver<S = MethodOptions> {
   readonly options: ReadonlyArray<string>;
   /** The unit of its run length and of `work` (e.g. "flips", "sweeps"). */
   readonly runLengthUnit: string;
+  /**
+   * The model kinds on which it is part of the default `--solvers` (absent = never by default). The default list
+   * of a study is the ground-truth solver plus every registered solver naming the study's kind here.
+   */
+  readonly defaultFor?: ReadonlyArray<ProblemKind>;
   /** Null when the solver applies to the study's instances, else the reason it does not (one line). */
   appliesTo(target: SolverTarget): string | null;
   /**

@@ -229,6 +229,7 @@ export const walkSolver: TrialsSolver<WalkSettings> = {
   description: "Schöning's random walk: random start, up to K·n flips of a variable of a violated clause, restart",
   options: ["walk-flips", "trials"],
   runLengthUnit: "flips",
+  defaultFor: ["cnf"],
   appliesTo: (target) => (target.kind === "cnf" ? null : `walk (Schöning) applies to k-SAT/CNF families only, not '${target.family}'`),
   skipReason: (truth) => (truth.optimum > 0 ? "not applicable: unsatisfiable, and Schöning's walk only finds models" : null),
   runLengths: (n, study) => [Number(study.options["walk-flips"]) * n],

@@ -86,15 +86,29 @@ describe("golden tables of two small studies", () => {
     expect(cell(sk, "truth|10|1").optimum as number).toBeCloseTo(-5.71177124304205, 12);
   });
 
+  // The issue-12 baselines, which joined the default --solvers (k-SAT: breakwalk; spin families: tempering) after
+  // the values above were pinned; computed by the tool itself at the merge of main into the baselines branch. Their
+  // cells have seeds of their own, so the counts above did not move.
+  it("seeded counts of the breakwalk and tempering cells", () => {
+    expect(cell(ksat, "run|10|1|breakwalk|10000")).toMatchObject({
+      trials: 20, successes: 20, work: 503, breakwalk_rule: "poly cb=2.38 eps=1",
+      steps_to_solution: [4, 11, 24, 7, 44, 22, 12, 32, 32, 60, 2, 10, 29, 24, 73, 7, 2, 23, 72, 13],
+    });
+    expect(cell(sk, "run|10|1|tempering|10")).toMatchObject({
+      trials: 20, successes: 20, work: 16000, replicas: 8, exchange_acceptance: [0.71, 0.8, 0.62, 0.66, 0.69, 0.9, 0.92],
+    });
+  });
+
   // Issue 13 (verdict) changed four layouts on purpose, and these values were bumped with it: runs.csv gains
   // floor_ns (the fixed per-cell cost); sizes.csv gains median_at_least and floor_ns; fits.csv gains basis,
   // poly_degree, aic_exponential, aic_polynomial, growth_model, floor_factor, below_floor and exponent_status;
   // comparison.csv gains basis, quantum_measure, n_from, n_to, rated, extrapolated and flags. The other files
-  // keep the layout pinned at b9834a9.
+  // keep the layout pinned at b9834a9. Issue 12 added breakwalk's columns (its flip rule and run-length summary) and
+  // tempering's (replicas and exchange acceptance) after the shared ones.
   const HEADERS: Record<string, Record<string, string>> = {
     ksat: {
       "instances.csv": "family,n,instance,seed,k,density,clauses,planted,rejected_draws,rejected_clauses,optimum,degeneracy,satisfiable,mean_cost,status",
-      "runs.csv": "family,n,instance,solver,run_length,status,wall_ns,work,trials,successes,p,p_low,p_high,floor_ns,work_per_trial,wall_ns_per_trial,tts_ns,tts_ns_low,tts_ns_high,tts_work,tts_work_low,message",
+      "runs.csv": "family,n,instance,solver,run_length,status,wall_ns,work,trials,successes,p,p_low,p_high,floor_ns,work_per_trial,wall_ns_per_trial,tts_ns,tts_ns_low,tts_ns_high,tts_work,tts_work_low,message,breakwalk_rule,rld_median_flips,rld_best_cutoff,rld_best_p,rld_best_tts_flips",
       "predictions.csv": "family,n,instance,predictor,status,queries,queries_log2,queries_low,queries_high,p,p_low,p_high,theta,rounds,trial_runs,success_probability,queries_unamplified,steps,steps_low,steps_high,reason,run_length,optima,k_star,queries_per_attempt,expected_attempts,lambda,iterations,checks,m0,bound_queries,stages_to_saturation,b,eta,e0,e1,gap,overlap_start,overlap_opt,phase_factor,residual,residual0,residual1,converged,gap_ok,gap_threshold,sector,mean_cost,optimum,wall_ns,message,b_best",
       "sizes.csv": "family,n,method_kind,method,run_length,optimal_run_length,measure,instances,censored,errors,median,median_low,median_high,q75,q75_low,q75_high,q90,q90_low,q90_high,median_at_least,floor_ns,resamples,flag",
       "fits.csv": "family,method_kind,method,measure,basis,quantile,exponent,exponent_low,exponent_high,base,base_low,base_high,intercept,r2,n_from,n_to,points,poly_degree,aic_exponential,aic_polynomial,growth_model,floor_factor,below_floor,exponent_status,run_length_rule,resamples,flag",
@@ -102,7 +116,7 @@ describe("golden tables of two small studies", () => {
     },
     sk: {
       "instances.csv": "family,n,instance,seed,couplings,terms,optimum,degeneracy,satisfiable,mean_cost,status",
-      "runs.csv": "family,n,instance,solver,run_length,status,wall_ns,work,trials,successes,p,p_low,p_high,floor_ns,work_per_trial,wall_ns_per_trial,tts_ns,tts_ns_low,tts_ns_high,tts_work,tts_work_low,message",
+      "runs.csv": "family,n,instance,solver,run_length,status,wall_ns,work,trials,successes,p,p_low,p_high,floor_ns,work_per_trial,wall_ns_per_trial,tts_ns,tts_ns_low,tts_ns_high,tts_work,tts_work_low,message,replicas,exchange_acceptance,exchange_acceptance_min",
       "predictions.csv": "family,n,instance,predictor,status,queries,queries_log2,queries_low,queries_high,p,p_low,p_high,theta,rounds,trial_runs,success_probability,queries_unamplified,steps,steps_low,steps_high,reason,run_length,optima,k_star,queries_per_attempt,expected_attempts,b,eta,e0,e1,gap,overlap_start,overlap_opt,phase_factor,iterations,residual,residual0,residual1,converged,gap_ok,gap_threshold,sector,mean_cost,optimum,wall_ns,message,b_best",
     },
   };

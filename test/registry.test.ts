@@ -4,7 +4,7 @@
  * solver is pure (same cell seed ⇒ same counts) on the problem kinds it says it applies to.
  */
 import { describe, expect, it } from "vitest";
-import { SOLVERS, trialsSolverNamed } from "../solvers/registry.js";
+import { SOLVERS, defaultSolvers, trialsSolverNamed } from "../solvers/registry.js";
 import { PREDICTORS } from "../harness/predict/registry.js";
 import { FAMILIES, familyNamed, generatorFor } from "../harness/families/registry.js";
 import { STUDY_OPTIONS } from "../harness/cli/options.js";
@@ -26,6 +26,14 @@ describe("registries", () => {
     for (const s of SOLVERS) if (s.kind === "trials") for (const o of s.options) expect(declared, `${s.name}: --${o}`).toContain(o);
     for (const p of PREDICTORS) for (const o of p.options) expect(declared, `${p.name}: --${o}`).toContain(o);
     for (const f of FAMILIES) for (const o of f.params) expect(declared, `${f.name}: --${o}`).toContain(o);
+  });
+
+  it("give the default --solvers of each model kind from the solvers' own entries (issue 12's lists)", () => {
+    expect(defaultSolvers("cnf")).toEqual(["exhaustive", "walk", "breakwalk", "anneal"]);
+    expect(defaultSolvers("ising")).toEqual(["exhaustive", "anneal", "tempering"]);
+    for (const kind of ["cnf", "ising"] as const) {
+      for (const name of defaultSolvers(kind).slice(1)) expect(trialsSolverNamed(name).appliesTo({ family: "test", kind }), name).toBeNull();
+    }
   });
 
   it("name the solver each amplification predictor needs, and that solver exists", () => {
@@ -50,7 +58,14 @@ describe("every randomised solver is pure", () => {
     const read = { number: (o: string) => Number(STUDY_OPTIONS.find((x) => x.name === o)?.default), given: () => false, flag: () => false, text: (o: string) => String(STUDY_OPTIONS.find((x) => x.name === o)?.default) };
     return generatorFor(f.name).generate("purity", f.resolveParams(read), 10, 1).problem;
   });
-  const study = { trials: 30, options: { "walk-flips": 3, "anneal-sweeps": [20], "anneal-cooling": "geometric", "anneal-beta": null } };
+  const study = {
+    trials: 30,
+    options: {
+      "walk-flips": 3, "anneal-sweeps": [20], "anneal-cooling": "geometric", "anneal-beta": null,
+      "breakwalk-flips": 100, "breakwalk-rule": null, "breakwalk-cb": null, "breakwalk-eps": null,
+      "tempering-replicas": 4, "tempering-sweeps": [10], "tempering-beta": null,
+    },
+  };
   const trials = SOLVERS.filter((s): s is TrialsSolver<unknown> => s.kind === "trials");
 
   it.each(trials.map((s) => [s.name, s] as const))("%s: same cell seed, same counts; counts are consistent", (_name, solver) => {

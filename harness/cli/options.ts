@@ -8,7 +8,7 @@
  * spellings before the prefixes are accepted as hidden aliases.
  */
 import { FAMILY_NAMES } from "../families/registry.js";
-import { SOLVER_NAMES } from "../../solvers/registry.js";
+import { SOLVER_NAMES, defaultSolvers } from "../../solvers/registry.js";
 import { PREDICTOR_NAMES } from "../predict/registry.js";
 
 // Choices of --family, --solvers and --predict come from the registries, never typed again here.
@@ -79,13 +79,26 @@ export const OPTIONS = [
   { name: "couplings", type: "string", group: "family", default: "gauss", choices: ["gauss", "pm1"], commands: INSTANCE, description: "sk: J ~ N(0,1/n) or ±1/√n" },
   { name: "p", type: "integer", group: "family", default: 3, min: 2, max: 8, commands: INSTANCE, description: "pspin: interaction order" },
   { name: "degree", type: "integer", group: "family", default: 3, min: 1, max: 64, commands: INSTANCE, description: "maxcut: vertex degree d of the random regular graph" },
-  { name: "solvers", type: "list", group: "solvers", default: "exhaustive,walk,anneal", choices: SOLVER_NAMES, commands: STUDY, description: "classical solvers to time (exhaustive always runs: it is the ground truth)" },
+  {
+    name: "solvers", type: "list", group: "solvers", choices: SOLVER_NAMES, commands: STUDY,
+    // No single default: each solver's registry entry says on which model kinds it runs by default.
+    description: `classical solvers to time (exhaustive always runs: it is the ground truth); default per family kind: k-SAT/CNF ${defaultSolvers("cnf").join(",")}, spin families ${defaultSolvers("ising").join(",")}`,
+  },
   { name: "trials", type: "integer", group: "solvers", default: 200, min: 1, max: 1e9, commands: STUDY, description: "randomised solvers: independent trials per instance and run length" },
   { name: "walk-flips", type: "string", group: "solvers", default: "3n", commands: STUDY, description: "walk: flips per trial before a restart, as K·n (e.g. 3n, Schöning's choice)" },
   { name: "anneal-sweeps", aliases: ["sweeps"], type: "list", group: "solvers", default: "10,30,100,300", unit: "sweeps", commands: STUDY, description: "anneal: sweeps per trial (run lengths), one run per value" },
   { name: "anneal-cooling", aliases: ["schedule"], type: "string", group: "solvers", default: "equal-ratios", choices: COOLING_LAWS, commands: STUDY, description: "anneal: cooling law from sweep to sweep: equal-ratios (each sweep's 1/T a fixed multiple of the last) or equal-steps (1/T rises by equal steps)" },
   { name: "anneal-temperature", type: "string", group: "solvers", unit: "cost units", commands: STUDY, description: "anneal: temperature range HOT:COLD, hot end first (default: the acceptance-ratio rule on each instance, see README)" },
   { name: "anneal-beta", aliases: ["beta"], hidden: true, type: "string", group: "solvers", unit: "1/cost", commands: STUDY, description: "anneal: the range as inverse temperatures START:END (older spelling of --anneal-temperature)" },
+  { name: "breakwalk-flips", type: "string", group: "solvers", default: "1000n", commands: STUDY, description: "breakwalk: flips per trial at most, as K·n (the cap of its run-length distribution; success and TTS at any shorter cut-off follow from it)" },
+  { name: "breakwalk-rule", type: "string", group: "solvers", choices: ["poly", "exp"], commands: STUDY, description: "breakwalk: flip weight f(break) = (eps+break)^-cb (poly) or cb^-break (exp) (default: poly for k ≤ 3, exp above)" },
+  { name: "breakwalk-cb", type: "number", group: "solvers", min: 0, commands: STUDY, description: "breakwalk: cb of the flip weight, > 0 (default per k: 2.38, 3.0, 3.6, 4.4 for k = 3, 4, 5, ≥ 6; see README)" },
+  { name: "breakwalk-eps", type: "number", group: "solvers", min: 0, commands: STUDY, description: "breakwalk: eps of the polynomial weight, > 0 (default 1)" },
+  { name: "tempering-replicas", type: "integer", group: "solvers", default: 8, min: 1, max: 256, commands: STUDY, description: "tempering: replicas R (temperatures geometric between the hot and the cold end)" },
+  { name: "tempering-sweeps", type: "list", group: "solvers", default: "10,30,100", unit: "sweeps", commands: STUDY, description: "tempering: rounds per trial (a sweep of every replica, then neighbour exchanges), one run per value" },
+  { name: "tempering-temperature", type: "string", group: "solvers", unit: "cost units", commands: STUDY, description: "tempering: temperature range HOT:COLD of the ladder, hot end first (default: the annealer's acceptance-ratio rule on each instance)" },
+  { name: "tempering-beta", hidden: true, type: "string", group: "solvers", unit: "1/cost", commands: STUDY, description: "tempering: the range as inverse temperatures HOT:COLD, 0 < HOT ≤ COLD (older spelling of --tempering-temperature)" },
+  { name: "external", type: "string", group: "solvers", commands: STUDY, description: "NAME=COMMAND: time any solver binary as solver NAME (repeatable); placeholders {file}, {seed}, {timeout}; see README" },
   { name: "predict", type: "list", group: "predictors", default: "grover,grover-unknown,min-finding,amplified-walk,amplified-anneal", choices: PREDICTOR_NAMES, commands: STUDY, description: "quantum predictors (query counts, never timings)" },
   { name: "spectral-b", aliases: ["b"], type: "number", group: "predictors", default: 0.7, min: 0, commands: ["run", "slurm", "spectral"], description: "spectral: filter strength b" },
   { name: "spectral-b-scan", aliases: ["b-scan"], type: "string", group: "predictors", commands: ["run", "slurm", "spectral"], description: "spectral: scan b over FROM:TO:STEP (overrides --spectral-b)" },

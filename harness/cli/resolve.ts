@@ -11,7 +11,8 @@ import { COOLING_INTERNAL, COOLING_LAWS, optionSpec, type OptionSpec } from "./o
 import { type StudySpec, methodOptionsOf } from "../engine/study.js";
 import { sizeOf } from "../model/problem.js";
 import { PREDICTOR_NAMES, predictorNamed } from "../predict/registry.js";
-import { SOLVER_NAMES, groundTruthSolver, trialsSolverNamed } from "../../solvers/registry.js";
+import { SOLVER_NAMES, defaultSolvers, groundTruthSolver, trialsSolverNamed } from "../../solvers/registry.js";
+import { parseExternalOption } from "../engine/external-solver.js";
 import type { MethodOptions } from "../../solvers/types.js";
 import type { CellSizeTarget } from "../predict/types.js";
 import { defaultSpectralMemory, formatGiB, parseMemory } from "../predict/numerics/memory.js";
@@ -70,8 +71,8 @@ export function numberOption(argv: Argv, name: string): number | null {
   return value;
 }
 
-function listOption(argv: Argv, name: string, allowed: ReadonlyArray<string>): string[] {
-  const raw = argv[name] ?? spec(name).default ?? "";
+function listOption(argv: Argv, name: string, allowed: ReadonlyArray<string>, fallback?: string): string[] {
+  const raw = argv[name] ?? fallback ?? spec(name).default ?? "";
   const items = String(raw).split(",").map((s) => s.trim()).filter((s) => s !== "");
   for (const item of items) {
     if (!allowed.includes(item)) throw new InputError(`--${name}: unknown value '${item}' (choose from ${allowed.join(", ")})`);
@@ -201,7 +202,8 @@ export function resolveStudy(argv: Argv): StudySpec {
   const sizes = folder ? [...new Set(files.map((f) => f.n))].sort((a, b) => a - b) : parseSizeRange(String(argv.n ?? spec("n").default));
   const familyParams = fam.resolveParams(paramReader(argv));
   const target = { family, kind: fam.kind };
-  const solvers = listOption(argv, "solvers", SOLVER_NAMES).filter((s) => s !== groundTruthSolver(fam.kind, false, 0).name);
+  // Without --solvers: the registry's default list for the family's kind (each solver's `defaultFor`).
+  const solvers = listOption(argv, "solvers", SOLVER_NAMES, defaultSolvers(fam.kind).join(",")).filter((s) => s !== groundTruthSolver(fam.kind, false, 0).name);
   for (const name of [...solvers]) {
     const why = trialsSolverNamed(name).appliesTo(target);
     if (why === null) continue;
@@ -274,6 +276,7 @@ export function resolveStudy(argv: Argv): StudySpec {
     sweeps,
     schedule,
     beta,
+    ...resolveBaselines(argv, solvers),
     predictors,
     spectral: { bValues, eta: numberOption(argv, "spectral-eta") as number, ...(spectralMemory !== undefined ? { memory: spectralMemory } : {}) },
     ...(adiabaticGrid !== undefined ? { adiabatic: { grid: adiabaticGrid } } : {}),
@@ -281,6 +284,54 @@ export function resolveStudy(argv: Argv): StudySpec {
     report: { fitFrom: optionalNumber(argv, "fit-from"), resamples: numberOption(argv, "resamples") as number, floorFactor: numberOption(argv, "floor-factor") as number },
   };
   return deepFreeze(study);
+}
+
+/**
+ * Breakwalk's and tempering's options, always checked but kept in the spec only when the solver is in the study (so
+ * that the spec.json of a study without it keeps its text), and the external solver binaries (only when given).
+ */
+function resolveBaselines(argv: Argv, solvers: ReadonlyArray<string>): Pick<StudySpec, "breakwalk" | "tempering" | "external"> {
+  // Every option is checked (a bad value is refused even when its solver is not in the study, as for the annealer's).
+  const rule = argv["breakwalk-rule"] === undefined ? null : String(argv["breakwalk-rule"]);
+  if (rule !== null && rule !== "poly" && rule !== "exp") throw new InputError(`--breakwalk-rule: '${rule}' is not poly or exp`);
+  const cb = optionalNumber(argv, "breakwalk-cb");
+  if (cb !== null && !(cb > 0)) throw new InputError(`--breakwalk-cb: must be positive, got ${cb}`);
+  const eps = optionalNumber(argv, "breakwalk-eps");
+  if (eps !== null && !(eps > 0)) throw new InputError(`--breakwalk-eps: must be positive, got ${eps}`);
+  const flipsText = String(argv["breakwalk-flips"] ?? spec("breakwalk-flips").default);
+  const bf = /^(\d+(?:\.\d+)?)n$/.exec(flipsText);
+  if (!bf || !(Number(bf[1]) > 0)) throw new InputError(`--breakwalk-flips: '${flipsText}' is not of the form Kn with K > 0 (e.g. 1000n)`);
+  const sweeps = numberList(String(argv["tempering-sweeps"] ?? spec("tempering-sweeps").default), "--tempering-sweeps").map((s) => {
+    if (!Number.isInteger(s)) throw new InputError(`--tempering-sweeps: '${s}' is not a whole number`);
+    return s;
+  });
+  if (argv["tempering-temperature"] !== undefined && argv["tempering-beta"] !== undefined) {
+    throw new InputError(`--tempering-temperature: give the range once (not also as --tempering-beta)`);
+  }
+  let beta: [number, number] | null = null;
+  if (argv["tempering-temperature"] !== undefined) {
+    const text = String(argv["tempering-temperature"]);
+    const parts = text.split(":").map(Number);
+    if (parts.length !== 2 || !parts.every((x) => Number.isFinite(x) && x > 0) || parts[1] > parts[0]) {
+      throw new InputError(`--tempering-temperature: '${text}' is not HOT:COLD with HOT ≥ COLD > 0 (hot end first)`);
+    }
+    beta = [1 / parts[0], 1 / parts[1]];
+  }
+  if (argv["tempering-beta"] !== undefined) {
+    const text = String(argv["tempering-beta"]);
+    const parts = text.split(":").map(Number);
+    if (parts.length !== 2 || !parts.every((x) => Number.isFinite(x) && x > 0) || parts[1] < parts[0]) {
+      throw new InputError(`--tempering-beta: '${text}' is not HOT:COLD with 0 < HOT ≤ COLD (inverse temperatures)`);
+    }
+    beta = [parts[0], parts[1]];
+  }
+  const replicas = numberOption(argv, "tempering-replicas") as number;
+  const external = parseExternalOption(argv.external);
+  return {
+    ...(solvers.includes("breakwalk") ? { breakwalk: { rule, cb, eps, flipsPerVariable: Number(bf[1]) } } : {}),
+    ...(solvers.includes("tempering") ? { tempering: { replicas, sweeps, beta } } : {}),
+    ...(external.length > 0 ? { external } : {}),
+  };
 }
 
 /** A numeric option that has no default: null when not given. */

@@ -51,7 +51,24 @@ export interface RunRecord extends RecordBase {
   readonly beta_end: number | null;
   /** Fixed per-cell cost (the same call with zero trials), ns; absent in older journals. */
   readonly floor_ns?: number | null;
+  /**
+   * Run-length distribution (solvers that report one, e.g. breakwalk): steps to solution of each finished trial,
+   * −1 where the trial was censored at the run length.
+   */
+  readonly steps_to_solution?: ReadonlyArray<number>;
+  /** Tempering: exchange acceptance rate per neighbouring pair of temperatures, hot end first (null: never tried). */
+  readonly exchange_acceptance?: ReadonlyArray<number | null>;
+  // Further scalar fields come from a solver's `extra` (solvers/types.ts) or an external cell (start-up floor).
 }
+
+/**
+ * The fields every run record has and the report treats itself; any other scalar field of a run record is a
+ * solver's extra result, which runs.csv shows as a column of its own.
+ */
+export const RUN_RECORD_FIELDS: ReadonlySet<string> = new Set([
+  "key", "n", "index", "file", "status", "wall_ns", "message", "kind", "solver", "run_length", "trials", "successes", "work",
+  "best", "beta_start", "beta_end", "steps_to_solution", "exchange_acceptance", "floor_ns",
+]);
 
 /**
  * A predictor's worker-side numerics at one parameter value. The kind and the field `b` keep the names of the

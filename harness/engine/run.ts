@@ -17,6 +17,8 @@ import { type Cell, type InstanceRef, type StudySpec, cellsOfInstance, instances
 import type { PredictAnswer, TrialsAnswer } from "./tasks.js";
 import { trialsSolverNamed } from "../../solvers/registry.js";
 import { familyNamed, materialise } from "../families/registry.js";
+import { costTolerance } from "../model/problem.js";
+import { FLOOR_LIMIT_MS, measureStartupFloor, ProcessSlots, runExternalCell } from "./external-solver.js";
 
 /** How a run is carried out (not part of the study's identity). */
 export interface RunOptions {
@@ -54,16 +56,23 @@ export async function runStudy(spec: StudySpec, options: RunOptions): Promise<Ru
   const withStopFlag = <T>(body: (flag: Int32Array) => Promise<T>): Promise<T> => stop.withStopFlag(body);
 
   const pool = new WorkerPool(options.workers);
+  const problemKind = familyNamed(spec.family).kind;
+  // External solver binaries: at most --workers processes at once, and each command's start-up floor measured
+  // once per run on a trivial instance (recorded in its rows, so start-up cost can be told from scaling).
+  const processSlots = new ProcessSlots(options.workers);
+  const floors = new Map<string, number | null>();
+  for (const ext of spec.external ?? []) {
+    floors.set(ext.name, (await measureStartupFloor(ext, problemKind, 5, Math.min(FLOOR_LIMIT_MS, options.cellLimitMs ?? Infinity))).floor_ns);
+  }
   const record = (r: JournalRecord): void => {
     journal.append(r);
     done.set(r.key, r);
     state.done++;
-    if (r.status === "error") state.errors++;
+    if (r.status === "error" || r.status === "wrong") state.errors++; // a wrong external answer fails the run too
     if (r.status === "censored") state.censored++;
     options.progress.tick(r.key);
   };
 
-  const problemKind = familyNamed(spec.family).kind;
   const solverStudy = solverStudyOf(spec);
   const methodOptions = methodOptionsOf(spec);
   const ctxOf = (inst: InstanceRef): InstanceContext => ({
@@ -104,6 +113,21 @@ export async function runStudy(spec: StudySpec, options: RunOptions): Promise<Ru
         best: null, beta_start: null, beta_end: null, status: "error", wall_ns: 0, message: "", ...extra,
       });
       if (truth.status !== "ok" || truth.optimum === null) return rec(withoutTruth(truth));
+      const external = spec.external?.find((e) => e.name === cell.method);
+      if (external) {
+        return withStopFlag(async (flag) => {
+          try {
+            const problem = materialise(ctxOf(inst)).problem;
+            const x = await runExternalCell(external, problem, truth.optimum as number, costTolerance(problem), spec.trials, cell.seed, flag,
+              options.cellLimitMs, processSlots, floors.get(external.name) ?? null);
+            return rec({ status: x.status, trials: x.trials, successes: x.successes, work: x.work, wall_ns: x.wall_ns, message: x.message, ...(x.details as Partial<RunRecord>),
+              // The fixed-cost floor of an external cell is its command's start-up, once per process run.
+              floor_ns: typeof x.details.startup_floor_ns === "number" ? x.details.startup_floor_ns * Math.max(1, x.trials) : null });
+          } catch (e) {
+            return rec({ message: messageOf(e) });
+          }
+        });
+      }
       const solver = trialsSolverNamed(cell.method);
       const skip = solver.skipReason({ kind: problemKind, optimum: truth.optimum });
       if (skip !== null) return rec({ status: "skipped", message: skip });
@@ -117,6 +141,8 @@ export async function runStudy(spec: StudySpec, options: RunOptions): Promise<Ru
           return rec({
             status: r.censored ? "censored" : "ok", wall_ns: a.wall_ns, trials: r.trials, successes: r.successes, work: r.work,
             best: Number.isFinite(r.best) ? r.best : null, ...(r.extra as Partial<RunRecord> | undefined), floor_ns: a.floor_ns,
+            ...(r.stepsToSolution === undefined ? {} : { steps_to_solution: r.stepsToSolution }),
+            ...(r.exchangeAcceptance === undefined ? {} : { exchange_acceptance: r.exchangeAcceptance }),
             message: r.censored ? `stopped by a time limit after ${r.trials} trials` : "",
           });
         } catch (e) {

@@ -32,6 +32,18 @@ export interface StudySpec {
   readonly schedule: "linear" | "geometric";
   /** Anneal inverse-temperature range, or null for the instance-derived default. */
   readonly beta: readonly [number, number] | null;
+  /**
+   * Breakwalk (present only when it is in `solvers`, so that spec.json of other studies keeps its text): flip rule
+   * (nulls = the defaults for the clause length) and the cap, flips = flipsPerVariable · n.
+   */
+  readonly breakwalk?: { readonly rule: "poly" | "exp" | null; readonly cb: number | null; readonly eps: number | null; readonly flipsPerVariable: number };
+  /**
+   * Tempering (present only when it is in `solvers`): replicas, rounds per trial (one run each), and the range as
+   * inverse temperatures [β_hot, β_cold] (null = the annealer's instance-derived rule).
+   */
+  readonly tempering?: { readonly replicas: number; readonly sweeps: ReadonlyArray<number>; readonly beta: readonly [number, number] | null };
+  /** External solver binaries (`--external NAME=COMMAND`; present only when given), one cell each per instance (run length 0). */
+  readonly external?: ReadonlyArray<{ readonly name: string; readonly command: string }>;
   readonly predictors: ReadonlyArray<string>;
   /** memory: bytes one spectral or adiabatic cell may use (--spectral-memory); absent when not given (each machine
    * then allows 75% of its physical memory, so shards on nodes of different sizes stay one study). */
@@ -106,6 +118,7 @@ export function cellsOfInstance(spec: StudySpec, inst: InstanceRef): Cell[] {
     if (solver.appliesTo(target) !== null) continue;
     for (const len of solver.runLengths(inst.n, study)) cells.push(runCell(spec, inst, name, len));
   }
+  for (const ext of spec.external ?? []) cells.push(runCell(spec, inst, ext.name, 0));
   for (const name of spec.predictors) {
     const cell = predictorNamed(name).cell;
     if (!cell) continue;
@@ -126,6 +139,17 @@ export function methodOptionsOf(spec: StudySpec): MethodOptions {
     "anneal-sweeps": spec.sweeps,
     "anneal-cooling": spec.schedule,
     "anneal-beta": spec.beta,
+    ...(spec.breakwalk === undefined ? {} : {
+      "breakwalk-flips": spec.breakwalk.flipsPerVariable,
+      "breakwalk-rule": spec.breakwalk.rule,
+      "breakwalk-cb": spec.breakwalk.cb,
+      "breakwalk-eps": spec.breakwalk.eps,
+    }),
+    ...(spec.tempering === undefined ? {} : {
+      "tempering-replicas": spec.tempering.replicas,
+      "tempering-sweeps": spec.tempering.sweeps,
+      "tempering-beta": spec.tempering.beta,
+    }),
     "spectral-b": spec.spectral.bValues,
     "spectral-eta": spec.spectral.eta,
     "spectral-memory": spec.spectral.memory ?? null,

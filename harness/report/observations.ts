@@ -156,7 +156,7 @@ export function collect(runs: ReadonlyArray<RunRow>, predictions: ReadonlyArray<
   };
   for (const row of runs) {
     if (row.status === "skipped") continue; // not applicable to this instance: no observation at all
-    if (row.status === "error") {
+    if (row.status === "error" || row.status === "wrong") { // a wrong external answer is never a success
       addError(row.family, "solver", row.solver, row.run_length, row.n, row.instance);
       continue;
     }

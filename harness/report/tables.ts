@@ -3,10 +3,11 @@
  * predictors are evaluated here from the recorded ground truth and measured success probabilities: they
  * are pure functions of those, so they need no cells of their own and change when the journal does.
  */
-import type { JournalRecord, RunRecord, SpectralRecord, TruthRecord } from "../engine/journal.js";
+import { RUN_RECORD_FIELDS, type JournalRecord, type RunRecord, type SpectralRecord, type TruthRecord } from "../engine/journal.js";
 import type { StudySpec } from "../engine/study.js";
 import type { InstanceRow, PredictionRow, RunRow } from "../types.js";
 import { ttsFromCounts } from "../stats/tts.js";
+import { bestCutoff, medianFlips, runLengthsFromSteps } from "../stats/run-length.js";
 import { PREDICTORS, predictorNamed } from "../predict/registry.js";
 import { familyNamed } from "../families/registry.js";
 
@@ -127,8 +128,39 @@ function runRow(spec: StudySpec, r: RunRecord): RunRow {
     tts_ns: finite(tts?.tts), tts_ns_low: finite(tts?.tts_low), tts_ns_high: finite(tts?.tts_high),
     tts_work: finite(ttsWork?.tts),
     tts_work_low: finite(ttsWork?.tts_low),
+    ...extraColumns(r),
     message: r.message,
   };
+}
+
+/**
+ * The solver-specific columns of a run row: the solver's own extra results (every scalar field of the record the
+ * report does not treat itself), a summary of the run-length distribution when the solver recorded one (median
+ * flips to solution, and the restart cut-off minimising TTS with its success probability and TTS, in flips:
+ * harness/stats/run-length.ts), and tempering's exchange acceptance rates (one `;`-separated column, hot end first,
+ * and their minimum: a pair that never swaps cuts the ladder in two).
+ */
+function extraColumns(r: RunRecord): Record<string, Cell> {
+  const out: Record<string, Cell> = {};
+  for (const [key, value] of Object.entries(r)) {
+    if (RUN_RECORD_FIELDS.has(key)) continue;
+    if (value === null || typeof value === "number" || typeof value === "string" || typeof value === "boolean") out[key] = value;
+  }
+  if (r.steps_to_solution !== undefined) {
+    const rld = runLengthsFromSteps(r.steps_to_solution, r.run_length);
+    const median = medianFlips(rld);
+    const best = bestCutoff(rld);
+    out.rld_median_flips = Number.isFinite(median) ? median : null;
+    out.rld_best_cutoff = best?.cutoff ?? null;
+    out.rld_best_p = best?.p ?? null;
+    out.rld_best_tts_flips = best?.tts ?? null;
+  }
+  if (r.exchange_acceptance !== undefined) {
+    const rates = r.exchange_acceptance.map((x) => (x === null || !Number.isFinite(x) ? null : x));
+    out.exchange_acceptance = rates.map((x) => (x === null ? "" : x.toFixed(4))).join(";");
+    out.exchange_acceptance_min = rates.length > 0 && rates.every((x) => x !== null) ? Math.min(...(rates as number[])) : null;
+  }
+  return out;
 }
 
 function prediction(base: { family: string; n: number; instance: number }, predictor: string, parts: object): PredictionRow {

@@ -11,6 +11,8 @@ import { writeOutputs } from "../../report/outputs.js";
 import { buildManifest } from "../../engine/manifest.js";
 import { writeFileAtomic } from "../../engine/files.js";
 import { resolvedOptions } from "../options.js";
+import { defaultSolvers } from "../../../solvers/registry.js";
+import { familyNamed } from "../../families/registry.js";
 import { formatComparison } from "../../report/paper.js";
 import { type Args } from "./shared.js";
 import { workersOf } from "./shared.js";
@@ -35,7 +37,7 @@ export async function run(argv: Args, rawArgs: ReadonlyArray<string>): Promise<n
     ? [...(Array.isArray(previous?.resumed_at) ? (previous!.resumed_at as string[]) : []), started.toISOString()]
     : [];
   const extra = {
-    options: resolvedOptions(argv, "run"), budget_ms: budgetMs, cell_limit_ms: cellLimitMs,
+    options: manifestOptions(argv, spec.family), budget_ms: budgetMs, cell_limit_ms: cellLimitMs,
     resumed_at: resumedAt, report_settings: { settings: paper.settings ?? "" },
   };
   writeFileAtomic(join(out, OUT_FILES.manifest), JSON.stringify(buildManifest({ argv: rawArgs, spec, workers, shard, started: firstStart, ended: new Date(), summary, extra }), null, 2) + "\n");
@@ -44,6 +46,11 @@ export async function run(argv: Args, rawArgs: ReadonlyArray<string>): Promise<n
   if (summary.interrupted === "SIGINT") return EXIT.interrupted;
   if (summary.interrupted === "SIGTERM") return EXIT.terminated;
   return summary.errors > 0 ? EXIT.failures : EXIT.ok;
+}
+
+/** The resolved options for the manifest; --solvers has no single default (it depends on the family's kind). */
+function manifestOptions(argv: Args, family: string): Record<string, unknown> {
+  return { ...resolvedOptions(argv, "run"), solvers: argv.solvers ?? defaultSolvers(familyNamed(family).kind).join(",") };
 }
 
 function summaryLine(s: RunSummary, out: string): string {

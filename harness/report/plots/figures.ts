@@ -279,7 +279,7 @@ export async function instancesFigureSvg(tables: Tables, sizes: ReadonlyArray<Si
     const classical = new Map<number, { v: number; censored: boolean }>();
     for (const r of tables.runs) {
       if (r.family !== ctx.family || r.solver !== solverRow.method || r.n !== n || r.run_length !== solverRow.run_length) continue;
-      if (r.status === "error" || r.status === "skipped") continue;
+      if (r.status === "error" || r.status === "wrong" || r.status === "skipped") continue;
       const censored = r.status === "censored" || r.successes === 0;
       const v = censored ? (r.tts_ns_low ?? r.wall_ns) : r.tts_ns;
       if (v !== null && v > 0) classical.set(r.instance, { v: (v * 1e-9) / ctx.parallelism, censored });
