@@ -36,9 +36,11 @@ export function claspModelCount(cnf: Cnf): bigint {
 /**
  * Minimum number of violated clauses and the number of optimal assignments, by clasp on the formula as weighted
  * CNF (every clause soft, weight 1) with `--opt-mode=optN --models 0`. The count is clasp's "Optimal" figure: its
- * "Models" figure also counts the improving, non-optimal models met on the way.
+ * "Models" figure also counts the improving, non-optimal models met on the way. clasp 3.3.5 leaves the "Optimal"
+ * line out in some runs (seen with a single optimal model); the count is then null, and tests choose instances
+ * where it is printed rather than guess.
  */
-export function claspMaxsat(cnf: Cnf): { optimum: number; optimal: bigint } {
+export function claspMaxsat(cnf: Cnf): { optimum: number; optimal: bigint | null } {
   const m = cnf.offsets.length - 1;
   const lines = [`p wcnf ${cnf.variables} ${m} ${m + 1}`];
   for (let c = 0; c < m; c++) lines.push(`1 ${Array.from(cnf.literals.subarray(cnf.offsets[c], cnf.offsets[c + 1])).join(" ")} 0`);
@@ -46,6 +48,6 @@ export function claspMaxsat(cnf: Cnf): { optimum: number; optimal: bigint } {
   if (!/^s OPTIMUM FOUND/m.test(out)) throw new Error(`clasp: no optimum reported\n${out}`);
   const optimum = Number(statistic(out, "Optimization"));
   const optimal = statistic(out, "Optimal");
-  if (!Number.isInteger(optimum) || optimal === null) throw new Error(`clasp: unexpected output\n${out}`);
-  return { optimum, optimal: BigInt(optimal) };
+  if (!Number.isInteger(optimum)) throw new Error(`clasp: unexpected output\n${out}`);
+  return { optimum, optimal: optimal === null ? null : BigInt(optimal) };
 }
