@@ -18,7 +18,9 @@ import { parseCouplingList, writeCouplingList } from "./formats/coupling-list.js
 import type { Problem } from "./model/problem.js";
 import { costTolerance, sizeOf } from "./model/problem.js";
 import { WorkerPool } from "./pool.js";
-import { exactLimit, mergeExact, planSlices } from "../solvers/exhaustive.js";
+import { exactLimit, exhaustiveSlice, mergeExact, planSlices } from "../solvers/exhaustive.js";
+import { cnfTruthMethod } from "../solvers/exact-cnf-truth.js";
+import type { ExactResult } from "../solvers/types.js";
 import type { TruthSliceAnswer } from "./tasks.js";
 import { canonicalParams } from "./families/params.js";
 import { FAMILY_NAMES } from "./options.js";
@@ -99,23 +101,35 @@ export async function solve(argv: Args): Promise<number> {
   const file = String(argv.file);
   const problem = readProblemFile(file);
   const n = sizeOf(problem);
-  if (n > exactLimit(problem)) throw new InputError(`${file}: n = ${n} is beyond the exact-enumeration limit of ${exactLimit(problem)}`);
-  const workers = workersOf(argv);
-  const pool = new WorkerPool(workers);
+  if (n > exactLimit(problem)) {
+    const what = problem.kind === "cnf" ? "exact ground-truth limit (model counting and MaxSAT)" : "exact-enumeration limit";
+    throw new InputError(`${file}: n = ${n} is beyond the ${what} of ${exactLimit(problem)}`);
+  }
+  // issue 16: counting runs in one piece, so it runs here (starting worker threads would cost more than it).
+  const counted = problem.kind === "cnf" && cnfTruthMethod(n) === "count";
+  const workers = counted ? 1 : workersOf(argv);
   const stop = new Int32Array(new SharedArrayBuffer(8));
   const ctx = { family: problem.kind === "cnf" ? "cnf" : "ising", params: {}, masterSeed: "", n, index: 0, file: resolve(file) };
   const start = process.hrtime.bigint();
-  let answers: TruthSliceAnswer[];
-  try {
-    answers = await Promise.all(planSlices(problem, workers).map((slice) => pool.run<TruthSliceAnswer>({ type: "truth-slice", ctx, slice, stop })));
-  } finally {
-    await pool.close();
+  let results: ExactResult[];
+  if (counted) {
+    results = planSlices(problem, 1).map((slice) => exhaustiveSlice(problem, slice, stop));
+  } else {
+    const pool = new WorkerPool(workers);
+    try {
+      const answers = await Promise.all(planSlices(problem, workers).map((slice) => pool.run<TruthSliceAnswer>({ type: "truth-slice", ctx, slice, stop })));
+      results = answers.map((a) => a.result);
+    } finally {
+      await pool.close();
+    }
   }
   const wall = Number(process.hrtime.bigint() - start);
-  const r = mergeExact(answers.map((a) => a.result), costTolerance(problem));
+  const r = mergeExact(results, costTolerance(problem));
+  // issue 16: degeneracy stays exact beyond 2^53 (a decimal string there); the method is named.
+  const degeneracy = r.degeneracy >= 2 ** 53 && r.degeneracyExact ? r.degeneracyExact : r.degeneracy;
   const result =
     problem.kind === "cnf"
-      ? { file, variables: n, clauses: problem.cnf.offsets.length - 1, optimum: r.optimum, degeneracy: r.degeneracy, satisfiable: r.optimum === 0, assignments: r.assignments, wall_ns: wall, workers }
+      ? { file, variables: n, clauses: problem.cnf.offsets.length - 1, optimum: r.optimum, degeneracy, satisfiable: r.optimum === 0, assignments: r.assignments, method: r.method ?? "enumeration", wall_ns: wall, workers }
       : { file, spins: n, terms: problem.ising.coefficients.length, optimum: r.optimum, degeneracy: r.degeneracy, degeneracy_tolerance: costTolerance(problem), assignments: r.assignments, wall_ns: wall, workers };
   if (argv.json) process.stdout.write(JSON.stringify(result) + "\n");
   else for (const [k, v] of Object.entries(result)) process.stdout.write(`${k.padEnd(22)} ${String(v)}\n`);

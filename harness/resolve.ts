@@ -10,7 +10,7 @@ import { defaultDensity } from "./families/ksat.js";
 import { FAMILY_NAMES, PREDICTOR_NAMES, SOLVER_NAMES, STUDY_OPTIONS, type OptionSpec } from "./options.js";
 import type { StudySpec } from "./study.js";
 import { sizeOf } from "./model/problem.js";
-import { CNF_EXACT_MAX_VARIABLES } from "../solvers/exhaustive-cnf.js";
+import { CNF_COUNT_MAX_VARIABLES } from "../solvers/exact-cnf-truth.js";
 import { SPIN_EXACT_MAX } from "../solvers/exhaustive-spin.js";
 import { lanczosMaxN } from "./predict/lanczos.js";
 
@@ -141,11 +141,15 @@ export function resolveStudy(argv: Argv): StudySpec {
   const sizes = folder ? [...new Set(files.map((f) => f.n))].sort((a, b) => a - b) : parseSizeRange(String(argv.n ?? spec("n").default));
   const familyParams = resolveFamilyParams(argv, family);
   const isCnf = family === "ksat" || family === "cnf";
-  const limit = isCnf ? CNF_EXACT_MAX_VARIABLES : SPIN_EXACT_MAX;
+  // issue 16: CNF ground truth is enumerated up to n = 30 and counted (model counter, MaxSAT) beyond.
+  const limit = isCnf ? CNF_COUNT_MAX_VARIABLES : SPIN_EXACT_MAX;
   const largest = sizes[sizes.length - 1];
   if (largest > limit) {
     const where = folder ? `--from: a file has n = ${largest}` : `--n: size ${largest}`;
-    throw new InputError(`${where} is beyond the exact-enumeration limit of ${limit} for this family (ground truth needs all 2^n configurations)`);
+    const what = isCnf
+      ? `the exact ground-truth limit of ${limit} for CNF (model counting and MaxSAT branch and bound)`
+      : `the exact-enumeration limit of ${limit} for this family (ground truth needs all 2^n configurations)`;
+    throw new InputError(`${where} is beyond ${what}`);
   }
   if (family === "ksat" && sizes[0] < (familyParams.k as number)) {
     throw new InputError(`--n: size ${sizes[0]} is smaller than k = ${familyParams.k}`);

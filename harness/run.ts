@@ -189,6 +189,10 @@ export async function runStudy(spec: StudySpec, options: RunOptions): Promise<Ru
           optimum: merged.complete ? merged.optimum : null,
           degeneracy: merged.complete ? merged.degeneracy : null,
           assignments: merged.assignments, mean: answers[0].mean,
+          // issue 16: which exact method answered, and its exact count.
+          truth_method: merged.method ?? "enumeration",
+          ...(merged.complete ? { degeneracy_exact: merged.degeneracyExact ?? String(merged.degeneracy) } : {}),
+          ...(merged.nodes === undefined ? {} : { nodes: merged.nodes }),
         };
       } catch (e) {
         return { ...base, status: "error", wall_ns: 0, message: messageOf(e), seed: "", meta: {}, optimum: null, degeneracy: null, assignments: 0, mean: null };

@@ -10,6 +10,7 @@ import { hasFlipSymmetry } from "../harness/model/ising.js";
 import { CNF_EXACT_MAX_VARIABLES, exhaustiveCnfSlice } from "./exhaustive-cnf.js";
 import { SPIN_EXACT_MAX, exhaustiveSpinSlice } from "./exhaustive-spin.js";
 import type { ExactResult, StopFlag } from "./types.js";
+import { CNF_COUNT_MAX_VARIABLES, cnfTruthByCounting, cnfTruthMethod } from "./exact-cnf-truth.js";
 
 /** One slice of the enumeration: the top `prefixBits` bits of z fixed to `prefix`. */
 export interface Slice {
@@ -19,9 +20,12 @@ export interface Slice {
   readonly mirror: boolean;
 }
 
-/** Largest n the exact methods accept for this problem kind. */
+/**
+ * Largest n the exact methods accept for this problem kind (CNF: enumeration up to
+ * {@link CNF_EXACT_MAX_VARIABLES}, counting beyond, up to {@link CNF_COUNT_MAX_VARIABLES}).
+ */
 export function exactLimit(problem: Problem): number {
-  return problem.kind === "cnf" ? CNF_EXACT_MAX_VARIABLES : SPIN_EXACT_MAX;
+  return problem.kind === "cnf" ? Math.max(CNF_EXACT_MAX_VARIABLES, CNF_COUNT_MAX_VARIABLES) : SPIN_EXACT_MAX;
 }
 
 /**
@@ -31,6 +35,8 @@ export function exactLimit(problem: Problem): number {
  */
 export function planSlices(problem: Problem, workers: number): Slice[] {
   const n = sizeOf(problem);
+  // issue 16: CNF beyond the switch is counted, in one piece (components are not split across workers).
+  if (problem.kind === "cnf" && cnfTruthMethod(n) === "count") return [{ prefixBits: 0, prefix: 0, mirror: false }];
   const mirror = problem.kind === "ising" && n > 1 && hasFlipSymmetry(problem.ising);
   const covered = mirror ? n - 1 : n; // free bits once the top spin is pinned
   let bits = 0;
@@ -54,12 +60,14 @@ export function planSlices(problem: Problem, workers: number): Slice[] {
 
 /** Runs one slice with the kernel for the problem's kind. */
 export function exhaustiveSlice(problem: Problem, slice: Slice, stop: StopFlag): ExactResult {
+  if (problem.kind === "cnf" && cnfTruthMethod(problem.cnf.variables) === "count") return cnfTruthByCounting(problem.cnf, stop);
   if (problem.kind === "cnf") return exhaustiveCnfSlice(problem.cnf, slice.prefixBits, slice.prefix, stop);
   return exhaustiveSpinSlice(problem.ising, slice.prefixBits, slice.prefix, slice.mirror, costTolerance(problem), stop);
 }
 
 /** Merges slice results: the minimum over slices, its degeneracy summed over the slices that reach it. */
 export function mergeExact(results: ReadonlyArray<ExactResult>, tolerance: number): ExactResult {
+  if (results.length === 1) return results[0]; // one slice (always so for counting): keep its method and exact count
   let optimum = Infinity;
   for (const r of results) if (r.optimum < optimum) optimum = r.optimum;
   let degeneracy = 0;

@@ -11,6 +11,8 @@ import { InputError } from "../errors.js";
 import type { Cnf } from "../model/cnf.js";
 import { Rng, deriveSeed } from "../random.js";
 import { exhaustiveCnfSlice } from "../../solvers/exhaustive-cnf.js";
+import { countModels } from "../../solvers/count-cnf.js";
+import { cnfTruthMethod } from "../../solvers/exact-cnf-truth.js";
 import { canonicalParams } from "./params.js";
 import type { Family, FamilyParams, GeneratedInstance } from "./types.js";
 
@@ -116,8 +118,15 @@ export const ksatFamily: Family = {
       const { cnf, rejectedClauses: rc } = drawFormula(rng, n, p);
       rejectedClauses += rc;
       if (exactNeeded) {
-        const truth = exhaustiveCnfSlice(cnf, 0, 0, null);
-        const ok = truth.optimum === 0 && (!p.unique || truth.degeneracy === 1);
+        // issue 16: enumeration up to the switch size, the model counter beyond.
+        let ok: boolean;
+        if (cnfTruthMethod(n) === "count") {
+          const models = countModels(cnf, null).count;
+          ok = models > 0n && (!p.unique || models === 1n);
+        } else {
+          const truth = exhaustiveCnfSlice(cnf, 0, 0, null);
+          ok = truth.optimum === 0 && (!p.unique || truth.degeneracy === 1);
+        }
         if (!ok) {
           rejectedDraws++;
           continue;
