@@ -9,7 +9,6 @@ import { EXIT, InputError } from "./errors.js";
 import { OUT_FILES, runStudy, type RunSummary } from "./run.js";
 import { numberOption, parseDuration, parseShard, readStudyFolder, resolveFamilyParams, resolveStudy, parseSizeRange } from "./resolve.js";
 import { consoleProgress } from "./progress.js";
-import { writeOutputs } from "./report/outputs.js";
 import { buildManifest } from "./manifest.js";
 import { writeFileAtomic } from "./files.js";
 import { generatorFor } from "./families/registry.js";
@@ -24,14 +23,23 @@ import type { ExactResult } from "../solvers/types.js";
 import type { TruthSliceAnswer } from "./tasks.js";
 import { canonicalParams } from "./families/params.js";
 import { FAMILY_NAMES } from "./options.js";
-import { formatComparison } from "./report/paper.js";
 import { computeSpectral } from "./predict/spectral-cell.js";
 import { costModelRows } from "./predict/cost-table.js";
-import { mergeShards, writeMerged } from "./merge.js";
-import { DEFAULT_SPEED_TOLERANCE, compareFolders } from "./compare.js";
 import { SLURM_FILES, slurmScripts } from "./slurm.js";
 
 type Args = Readonly<Record<string, unknown>>;
+
+// --- issue 16: the report modules (vega, vega-lite, summaries) are loaded only by the commands that write or
+// compare tables: loading them at every start cost about 0.3 s of CPU (measured with /usr/bin/time), more than
+// `solve` needs to count a 100-variable formula. ---
+const reporting = async () => {
+  const [outputs, paper, mergeMod, compareMod] = await Promise.all([
+    import("./report/outputs.js"), import("./report/paper.js"), import("./merge.js"), import("./compare.js"),
+  ]);
+  return { writeOutputs: outputs.writeOutputs, formatComparison: paper.formatComparison, mergeShards: mergeMod.mergeShards,
+    writeMerged: mergeMod.writeMerged, compareFolders: compareMod.compareFolders, DEFAULT_SPEED_TOLERANCE: compareMod.DEFAULT_SPEED_TOLERANCE };
+};
+// --- end issue 16 ---
 
 function workersOf(argv: Args): number {
   return numberOption(argv, "workers") ?? Math.max(1, availableParallelism());
@@ -39,6 +47,7 @@ function workersOf(argv: Args): number {
 
 /** `speedbound run`: resolve, run (or resume), write tables and manifest, print the comparison. */
 export async function run(argv: Args, rawArgs: ReadonlyArray<string>): Promise<number> {
+  const { writeOutputs, formatComparison } = await reporting(); // issue 16
   const spec = resolveStudy(argv);
   const out = resolve(String(argv.out ?? "results/latest"));
   const workers = workersOf(argv);
@@ -160,6 +169,7 @@ export async function instance(argv: Args): Promise<number> {
 
 /** `speedbound report DIR`: rebuild tables from the journal (optionally with other fit settings). */
 export async function report(argv: Args): Promise<number> {
+  const { writeOutputs, formatComparison } = await reporting(); // issue 16
   const dir = resolve(String(argv.dir));
   const { spec } = readStudyFolder(dir);
   const fitFrom = argv["fit-from"] === undefined ? spec.report.fitFrom : numberOption(argv, "fit-from");
@@ -198,6 +208,7 @@ export async function cost(argv: Args): Promise<number> {
 
 /** `speedbound merge OUT DIR…`: join shard folders and write the tables. */
 export async function merge(argv: Args, rawArgs: ReadonlyArray<string>): Promise<number> {
+  const { writeOutputs, formatComparison, mergeShards, writeMerged } = await reporting(); // issue 16
   const out = resolve(String(argv.out));
   const dirs = ((argv.dirs as string[] | undefined) ?? []).map((d) => resolve(d));
   const merged = mergeShards(dirs);
@@ -224,6 +235,7 @@ function mkdirOrFail(dir: string): void {
 
 /** `speedbound compare OLD NEW`: exit 1 on a regression. */
 export async function compare(argv: Args): Promise<number> {
+  const { compareFolders, DEFAULT_SPEED_TOLERANCE } = await reporting(); // issue 16
   const tolerance = argv.tolerance === undefined ? DEFAULT_SPEED_TOLERANCE : Number(argv.tolerance);
   if (!(tolerance > 0) || !Number.isFinite(tolerance)) throw new InputError(`--tolerance: '${String(argv.tolerance)}' is not a positive number`);
   const findings = compareFolders(resolve(String(argv.old)), resolve(String(argv.new)), tolerance);
