@@ -134,9 +134,11 @@ describe("published counts of structured formulas", () => {
 if (!HAVE_CLASP) console.warn("count-cnf: clasp checks skipped, `clasp` not installed (apt-get install -y clasp)");
 
 describe.skipIf(!HAVE_CLASP)("model counter equals clasp's enumeration (clasp --models 0)", () => {
-  it("on random 3-SAT n = 50–80 (planted at α = 4.2, and uniform at α = 3.5–4.26)", () => {
+  it("on random 3-SAT n = 50–80 (planted at α = 4.2, uniform at α = 4.26, and α = 3.5 at n = 50)", () => {
     for (const n of [50, 60, 70, 80]) {
-      for (const [density, planted] of [[4.2, true], [3.5, false], [4.26, false]] as Array<[number, boolean]>) {
+      // α = 3.5 only at n = 50: below the threshold counts reach 10^8 at n = 80, which clasp enumerates for minutes.
+      const settings: Array<[number, boolean]> = n === 50 ? [[4.2, true], [3.5, false], [4.26, false]] : [[4.2, true], [4.26, false]];
+      for (const [density, planted] of settings) {
         const cnf = ksat(n, density, `count-clasp-${n}`, planted);
         expect(countModels(cnf, null).count, `n=${n} α=${density} planted=${planted}`).toBe(claspModelCount(cnf));
       }
