@@ -1,17 +1,21 @@
 /**
- * CNF ground truth beyond enumeration: the optimum (minimum violated clauses) and its exact degeneracy from the
- * model counter (satisfiable formulas) or the MaxSAT branch and bound (unsatisfiable ones), in the
- * {@link ExactResult} shape the harness uses for enumeration, with the method and the exact count attached.
+ * CNF ground truth beyond enumeration, as an exact solver of the registry (solvers/registry.ts): the optimum
+ * (minimum violated clauses) and its exact degeneracy from the model counter (satisfiable formulas) or the MaxSAT
+ * branch and bound (unsatisfiable ones), in the {@link ExactResult} shape of enumeration, with the method and the
+ * exact count attached.
  *
- * Switch rule: enumeration (solvers/exhaustive-cnf.ts) for n ≤ {@link COUNT_SWITCH_VARIABLES}, counting above.
+ * Switch rule: enumeration (solvers/exhaustive-cnf.ts) for n ≤ {@link COUNT_SWITCH_VARIABLES}, counting above;
+ * the registry expresses it (the enumeration entry is capped there, this solver follows it).
  * Measured (mean of 6 random 3-SAT instances, node 20 on the 2-core test machine): at densities 4.26, 6 and 9
  * both methods take 3–60 ms for n = 16–28 with neither ahead throughout; from n = 32 the counter is ahead
  * (density 6, n = 36: 198 ms enumeration vs 49 ms counting; density 9, n = 36: 1.9 s vs 0.6 s) and enumeration
  * grows as 2^n in the worst case.
  */
 import type { Cnf } from "../harness/model/cnf.js";
+import { countModels } from "./count-cnf.js";
+import { exhaustiveCnfSlice } from "./exhaustive-cnf.js";
 import { maxsatExact } from "./maxsat-bound.js";
-import type { ExactResult, StopFlag } from "./types.js";
+import type { ExactResult, ExactSolver, StopFlag } from "./types.js";
 
 /** Largest n whose CNF ground truth comes from enumeration; larger formulas are counted. */
 export const COUNT_SWITCH_VARIABLES = 30;
@@ -29,9 +33,20 @@ export function cnfTruthMethod(n: number): "enumeration" | "count" {
 }
 
 /**
+ * Exact number of models of a formula (0n when unsatisfiable), by the faster method for its size (the switch
+ * rule above). For the --satisfiable/--unique filters: deciding them needs no MaxSAT optimum.
+ */
+export function cnfModelCount(cnf: Cnf): bigint {
+  if (cnfTruthMethod(cnf.variables) === "count") return countModels(cnf, null).count;
+  const truth = exhaustiveCnfSlice(cnf, 0, 0, null);
+  return truth.optimum === 0 ? BigInt(truth.degeneracy) : 0n;
+}
+
+/**
  * Optimum and degeneracy of a CNF formula by counting: method "count" when satisfiable (degeneracy = model
- * count), "maxsat" otherwise. `degeneracy` is the nearest double (exact below 2^53), `degeneracyExact` the exact
- * decimal; `assignments` = 2^n (all covered, implicitly); `nodes` = decisions made.
+ * count), "maxsat" otherwise (also while unproved, when stopped). `degeneracy` is the nearest double (exact
+ * below 2^53), `degeneracyExact` the exact decimal; `assignments` = 2^n (all covered, implicitly);
+ * `nodes` = decisions made.
  */
 export function cnfTruthByCounting(cnf: Cnf, stop: StopFlag): ExactResult {
   const r = maxsatExact(cnf, stop);
@@ -45,3 +60,21 @@ export function cnfTruthByCounting(cnf: Cnf, stop: StopFlag): ExactResult {
     nodes: r.nodes + r.counterNodes,
   };
 }
+
+/**
+ * Model counting and MaxSAT on the solver registry: the CNF ground truth beyond enumeration. One part per
+ * instance (components are found during the search, so the work is not split over workers).
+ */
+export const countSolver: ExactSolver<null> = {
+  name: "count",
+  kind: "exact",
+  description: `exact CNF optimum and degeneracy beyond enumeration (n ≤ ${CNF_COUNT_MAX_VARIABLES}): model counting with components and a cache, MaxSAT branch and bound when unsatisfiable (the ground truth above n = ${COUNT_SWITCH_VARIABLES})`,
+  maxSize: (kind) => (kind === "cnf" ? CNF_COUNT_MAX_VARIABLES : 0),
+  plan: () => [null],
+  run: (problem, _part, stop) => {
+    if (problem.kind !== "cnf") throw new Error("count: CNF formulas only");
+    return cnfTruthByCounting(problem.cnf, stop);
+  },
+  // One part: its result as it is (keeps the method and the exact count).
+  merge: (results) => results[0],
+};

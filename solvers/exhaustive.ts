@@ -9,8 +9,7 @@ import { costTolerance, sizeOf } from "../harness/model/problem.js";
 import { hasFlipSymmetry } from "../harness/model/ising.js";
 import { CNF_EXACT_MAX_VARIABLES, exhaustiveCnfSlice } from "./exhaustive-cnf.js";
 import { SPIN_EXACT_MAX, exhaustiveSpinSlice } from "./exhaustive-spin.js";
-import type { ExactResult, StopFlag } from "./types.js";
-import { CNF_COUNT_MAX_VARIABLES, cnfTruthByCounting, cnfTruthMethod } from "./exact-cnf-truth.js";
+import type { ExactResult, ExactSolver, StopFlag } from "./types.js";
 
 /** One slice of the enumeration: the top `prefixBits` bits of z fixed to `prefix`. */
 export interface Slice {
@@ -20,12 +19,9 @@ export interface Slice {
   readonly mirror: boolean;
 }
 
-/**
- * Largest n the exact methods accept for this problem kind (CNF: enumeration up to
- * {@link CNF_EXACT_MAX_VARIABLES}, counting beyond, up to {@link CNF_COUNT_MAX_VARIABLES}).
- */
+/** Largest n the exact methods accept for this problem kind. */
 export function exactLimit(problem: Problem): number {
-  return problem.kind === "cnf" ? Math.max(CNF_EXACT_MAX_VARIABLES, CNF_COUNT_MAX_VARIABLES) : SPIN_EXACT_MAX;
+  return problem.kind === "cnf" ? CNF_EXACT_MAX_VARIABLES : SPIN_EXACT_MAX;
 }
 
 /**
@@ -35,8 +31,6 @@ export function exactLimit(problem: Problem): number {
  */
 export function planSlices(problem: Problem, workers: number): Slice[] {
   const n = sizeOf(problem);
-  // issue 16: CNF beyond the switch is counted, in one piece (components are not split across workers).
-  if (problem.kind === "cnf" && cnfTruthMethod(n) === "count") return [{ prefixBits: 0, prefix: 0, mirror: false }];
   const mirror = problem.kind === "ising" && n > 1 && hasFlipSymmetry(problem.ising);
   const covered = mirror ? n - 1 : n; // free bits once the top spin is pinned
   let bits = 0;
@@ -60,14 +54,12 @@ export function planSlices(problem: Problem, workers: number): Slice[] {
 
 /** Runs one slice with the kernel for the problem's kind. */
 export function exhaustiveSlice(problem: Problem, slice: Slice, stop: StopFlag): ExactResult {
-  if (problem.kind === "cnf" && cnfTruthMethod(problem.cnf.variables) === "count") return cnfTruthByCounting(problem.cnf, stop);
   if (problem.kind === "cnf") return exhaustiveCnfSlice(problem.cnf, slice.prefixBits, slice.prefix, stop);
   return exhaustiveSpinSlice(problem.ising, slice.prefixBits, slice.prefix, slice.mirror, costTolerance(problem), stop);
 }
 
 /** Merges slice results: the minimum over slices, its degeneracy summed over the slices that reach it. */
 export function mergeExact(results: ReadonlyArray<ExactResult>, tolerance: number): ExactResult {
-  if (results.length === 1) return results[0]; // one slice (always so for counting): keep its method and exact count
   let optimum = Infinity;
   for (const r of results) if (r.optimum < optimum) optimum = r.optimum;
   let degeneracy = 0;
@@ -80,3 +72,14 @@ export function mergeExact(results: ReadonlyArray<ExactResult>, tolerance: numbe
   }
   return { optimum, degeneracy, assignments, complete };
 }
+
+/** Exhaustive enumeration on the solver registry: the ground truth of every instance within its limit. */
+export const exhaustiveSolver: ExactSolver<Slice> = {
+  name: "exhaustive",
+  kind: "exact",
+  description: "exact optimum and degeneracy by enumerating all 2^n configurations (always runs: the ground truth)",
+  maxSize: (kind) => (kind === "cnf" ? CNF_EXACT_MAX_VARIABLES : SPIN_EXACT_MAX),
+  plan: planSlices,
+  run: exhaustiveSlice,
+  merge: mergeExact,
+};

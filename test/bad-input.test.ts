@@ -35,11 +35,13 @@ const cases: Array<{ name: string; args: (out: string) => string[]; pattern: Reg
   { name: "unknown predictor", args: (o) => ["run", "--predict", "qaoa", "--out", o], pattern: /--predict: unknown value 'qaoa'/ },
   { name: "unknown option", args: (o) => ["run", "--sizes", "10", "--out", o], pattern: /Unknown argument: sizes/ },
   // issue 16: CNF ground truth is counted beyond enumeration, up to n = 200; spin families keep the enumeration limit.
-  { name: "size beyond the exact limit", args: (o) => ["run", "--n", "190:210:10", "--out", o], pattern: /--n: size 210 is beyond the exact ground-truth limit of 200 for CNF/ },
-  { name: "spin size beyond the enumeration limit", args: (o) => ["run", "--family", "sk", "--n", "30:70:10", "--out", o], pattern: /--n: size 70 is beyond the exact-enumeration limit/ },
+  { name: "size beyond the exact limit", args: (o) => ["run", "--n", "190:210:10", "--out", o], pattern: /--n: size 210 is beyond the exact ground-truth limit of 200 for this family \(the largest n an exact solver accepts: count\)/ },
+  { name: "spin size beyond the enumeration limit", args: (o) => ["run", "--family", "sk", "--n", "30:70:10", "--out", o], pattern: /--n: size 70 is beyond the exact ground-truth limit of 40 for this family \(the largest n an exact solver accepts: exhaustive\)/ },
   { name: "spectral beyond its memory limit", args: (o) => ["run", "--family", "ksat", "--n", "20:26:2", "--predict", "spectral", "--out", o], pattern: /--predict: spectral needs n ≤ 24/ },
   { name: "walk on a spin family", args: (o) => ["run", "--family", "sk", "--solvers", "walk", "--out", o], pattern: /--solvers: walk .* applies to k-SAT\/CNF families only/ },
   { name: "impossible regular graph", args: (o) => ["run", "--family", "maxcut", "--n", "7", "--degree", "3", "--out", o], pattern: /--n: no simple 3-regular graph on 7 vertices/ },
+  // p-spin at p = 8, n = 40 has C(40, 8) ≈ 7.7·10^7 terms: refused at the edge (it used to pass and fail every cell).
+  { name: "p-spin beyond its term limit", args: (o) => ["run", "--family", "pspin", "-p", "8", "--n", "40", "--out", o], pattern: /--n: size 40 with p = 8 has C\(40, 8\) = 76904685 terms/ },
   { name: "missing input folder", args: (o) => ["run", "--family", "cnf", "--from", join(root, "nope"), "--out", o], pattern: /--from: folder '.*nope' does not exist/ },
   { name: "input path is a file", args: (o) => ["run", "--family", "cnf", "--from", join(root, "notafolder"), "--out", o], pattern: /--from: '.*notafolder' is not a folder/ },
   { name: "empty input folder", args: (o) => ["run", "--family", "cnf", "--from", join(root, "empty"), "--out", o], pattern: /--from: folder '.*empty' has no \.cnf files/ },

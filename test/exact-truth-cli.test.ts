@@ -58,7 +58,7 @@ describe("solve FILE --json beyond enumeration", () => {
     const r = cli(["solve", file, "--json"]);
     expect(r.code).toBe(2);
     expect(r.stderr.trim().split("\n")).toHaveLength(1);
-    expect(r.stderr).toMatch(/n = 201 is beyond the exact ground-truth limit \(model counting and MaxSAT\) of 200/);
+    expect(r.stderr).toMatch(/n = 201 is beyond the exact ground-truth limit of 200 \(the largest n an exact solver accepts: count\)/);
   });
 });
 

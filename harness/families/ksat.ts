@@ -3,18 +3,16 @@
  * negated with probability 1/2. Options:
  *  - planted: a hidden uniform assignment is drawn first and clauses it violates are rejected and redrawn
  *    (the "planted" ensemble; the hidden assignment is always a model);
- *  - satisfiable: whole formulas are redrawn until exact enumeration finds a model;
+ *  - satisfiable: whole formulas are redrawn until one has a model (enumeration, or the model counter above n = 30);
  *  - unique: whole formulas are redrawn until exactly one assignment satisfies them.
  * Rejections are counted and written to instances.csv (rejected_draws, rejected_clauses).
  */
 import { InputError } from "../errors.js";
 import type { Cnf } from "../model/cnf.js";
 import { Rng, deriveSeed } from "../random.js";
-import { exhaustiveCnfSlice } from "../../solvers/exhaustive-cnf.js";
-import { countModels } from "../../solvers/count-cnf.js";
-import { cnfTruthMethod } from "../../solvers/exact-cnf-truth.js";
+import { cnfModelCount } from "../../solvers/exact-cnf-truth.js";
 import { canonicalParams } from "./params.js";
-import type { Family, FamilyParams, GeneratedInstance } from "./types.js";
+import type { FamilyParams, GeneratedFamily, GeneratedInstance } from "./types.js";
 
 /**
  * Default clause density α per k: the satisfiability thresholds computed by the cavity method in
@@ -104,8 +102,22 @@ export function validateKsat(p: KsatParams, n: number): void {
 }
 
 /** The `ksat` family. */
-export const ksatFamily: Family = {
+export const ksatFamily: GeneratedFamily = {
   name: "ksat",
+  kind: "cnf",
+  source: "generated",
+  description: "uniform random k-SAT: k distinct variables a clause, random signs, m = round(α·n) clauses",
+  params: ["k", "density", "planted", "satisfiable", "unique"],
+  resolveParams(read) {
+    const k = read.number("k");
+    const density = read.given("density") ? read.number("density") : defaultDensity(k);
+    if (!(density > 0)) throw new InputError(`--density: must be positive, got ${density}`);
+    const unique = read.flag("unique");
+    return { k, density, planted: read.flag("planted"), satisfiable: read.flag("satisfiable") || unique, unique };
+  },
+  checkSize: (n, params) => (n < Number(params.k) ? `--n: size ${n} is smaller than k = ${params.k}` : null),
+  flipSymmetric: () => false,
+  costShape: (params) => ({ kind: "ksat", clausesPerVariable: Number(params.density), k: Number(params.k), termsAt: () => 0, order: 0 }),
   generate(masterSeed: string, params: FamilyParams, n: number, index: number): GeneratedInstance {
     const p = ksatParams(params);
     validateKsat(p, n);
@@ -118,15 +130,9 @@ export const ksatFamily: Family = {
       const { cnf, rejectedClauses: rc } = drawFormula(rng, n, p);
       rejectedClauses += rc;
       if (exactNeeded) {
-        // issue 16: enumeration up to the switch size, the model counter beyond.
-        let ok: boolean;
-        if (cnfTruthMethod(n) === "count") {
-          const models = countModels(cnf, null).count;
-          ok = models > 0n && (!p.unique || models === 1n);
-        } else {
-          const truth = exhaustiveCnfSlice(cnf, 0, 0, null);
-          ok = truth.optimum === 0 && (!p.unique || truth.degeneracy === 1);
-        }
+        // issue 16: decided by enumeration up to the switch size, by the model counter beyond.
+        const models = cnfModelCount(cnf);
+        const ok = models > 0n && (!p.unique || models === 1n);
         if (!ok) {
           rejectedDraws++;
           continue;

@@ -7,12 +7,12 @@ import { readFileSync } from "node:fs";
 import { cpus, totalmem } from "node:os";
 import { fileURLToPath } from "node:url";
 import type { StudySpec } from "./study.js";
-import type { RunSummary } from "./run.js";
+import type { RunSummary } from "./run-summary.js";
 
-/** Root of the installed package (two levels above the compiled harness/). */
+/** Root of the installed package (three levels above the compiled harness/engine/). */
 function packageRoot(): string {
   const here = fileURLToPath(import.meta.url);
-  const levels = here.includes(`${"/"}dist${"/"}`) ? "../../" : "../";
+  const levels = here.includes(`${"/"}dist${"/"}`) ? "../../../" : "../../";
   return fileURLToPath(new URL(levels, import.meta.url));
 }
 
@@ -56,7 +56,7 @@ export function buildManifest(args: {
     command_line: ["speedbound", ...args.argv].join(" "),
     study: args.spec,
     master_seed: args.spec.seed,
-    seed_derivation: "sha256 of JSON [master seed, family, sorted family parameters, n, instance, method, run length]; trial t: trialRng(trialKey(cell seed), t) in solvers/walk.ts (sha256 of [cell seed, 'trial'] once, then a SplitMix-style mix of t)",
+    seed_derivation: "sha256 of JSON [master seed, family, sorted family parameters, n, instance, method, run length]; trial t: trialRng(trialKey(cell seed), t) in solvers/trial-seeds.ts (sha256 of [cell seed, 'trial'] once, then a SplitMix-style mix of t)",
     workers: args.workers,
     shard: args.shard,
     node_version: process.version,

@@ -12,7 +12,7 @@ import type { Task } from "./tasks.js";
 export function workerPath(): string {
   const here = fileURLToPath(import.meta.url);
   const compiled = here.endsWith(".ts")
-    ? fileURLToPath(new URL("../dist/harness/worker.js", import.meta.url))
+    ? fileURLToPath(new URL("../../dist/harness/engine/worker.js", import.meta.url))
     : fileURLToPath(new URL("./worker.js", import.meta.url));
   if (!existsSync(compiled)) throw new Error(`compiled worker missing at ${compiled}: run 'npm run build' first`);
   return compiled;

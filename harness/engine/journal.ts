@@ -5,7 +5,7 @@
  * {@link SYNC_EVERY_MS} ms, whichever comes first (so a power cut loses at most that much).
  */
 import { closeSync, existsSync, fsyncSync, openSync, readFileSync, truncateSync, writeSync } from "node:fs";
-import type { CellStatus } from "./types.js";
+import type { CellStatus } from "../types.js";
 
 /** fsync batch size (records). */
 export const SYNC_EVERY_RECORDS = 32;
@@ -55,9 +55,15 @@ export interface RunRecord extends RecordBase {
   readonly beta_end: number | null;
 }
 
-/** Spectral numerics at one b. */
+/**
+ * A predictor's worker-side numerics at one parameter value. The kind and the field `b` keep the names of the
+ * spectral method, the first such predictor, so that older journals resume; `predictor` is absent for it.
+ */
 export interface SpectralRecord extends RecordBase {
   readonly kind: "spectral";
+  /** Predictor name; absent means "spectral". */
+  readonly predictor?: string;
+  /** The cell's parameter value (b for the spectral method). */
   readonly b: number;
   readonly row: Readonly<Record<string, number | string | boolean | null>>;
 }

@@ -4,14 +4,14 @@
  * time per elementary step changed by more than a tolerance.
  */
 import { join } from "node:path";
-import { InputError } from "./errors.js";
-import { readJournal, type TruthRecord } from "./journal.js";
-import { readStudyFolder } from "./resolve.js";
-import { buildTables } from "./report/tables.js";
-import { fitScaling, type FitRow } from "./report/summarise.js";
-import { REPORT_BOOTSTRAP_SEED } from "./report/paper.js";
-import type { RunRow } from "./types.js";
-import { quantileOf } from "./stats/quantiles.js";
+import { InputError } from "../errors.js";
+import { readJournal, type TruthRecord } from "../engine/journal.js";
+import { OUT_FILES, readStudyFolder } from "../engine/output-folder.js";
+import { buildTables } from "./tables.js";
+import { fitScaling, type FitRow } from "./summarise.js";
+import { REPORT_BOOTSTRAP_SEED } from "./paper.js";
+import type { RunRow } from "../types.js";
+import { quantileOf } from "../stats/quantiles.js";
 
 /** One finding of a comparison. */
 export interface Finding {
@@ -34,8 +34,8 @@ export function compareFolders(oldDir: string, newDir: string, tolerance: number
   if (JSON.stringify(a.spec) !== JSON.stringify(b.spec)) {
     throw new InputError(`${newDir}: is not the same study as ${oldDir} (spec.json differs); compare runs of one study`);
   }
-  const oldRecords = readJournal(join(oldDir, "journal.jsonl")).records;
-  const newRecords = readJournal(join(newDir, "journal.jsonl")).records;
+  const oldRecords = readJournal(join(oldDir, OUT_FILES.journal)).records;
+  const newRecords = readJournal(join(newDir, OUT_FILES.journal)).records;
   const findings: Finding[] = [];
 
   // 1. Ground truth must be identical for the same seeds.

@@ -4,9 +4,14 @@
  * length on one instance, or one spectral computation on one instance. Every cell carries its own seed,
  * derived from the master seed and what identifies it, so results never depend on worker count, order or shard.
  */
-import type { FamilyParams } from "./families/types.js";
-import { canonicalParams } from "./families/params.js";
-import { deriveSeed } from "./random.js";
+import type { FamilyParams } from "../families/types.js";
+import { canonicalParams } from "../families/params.js";
+import { deriveSeed } from "../random.js";
+import type { CostModelSettings } from "../predict/cost-table.js";
+import { familyNamed } from "../families/registry.js";
+import { predictorNamed } from "../predict/registry.js";
+import { trialsSolverNamed } from "../../solvers/registry.js";
+import type { MethodOptions, SolverStudy } from "../../solvers/types.js";
 
 /** A study after validation: frozen and complete (defaults filled in). Written to spec.json and the manifest. */
 export interface StudySpec {
@@ -29,14 +34,7 @@ export interface StudySpec {
   readonly beta: readonly [number, number] | null;
   readonly predictors: ReadonlyArray<string>;
   readonly spectral: { readonly bValues: ReadonlyArray<number>; readonly eta: number };
-  readonly costModel: {
-    readonly toffoliSeconds: number;
-    readonly factories: number;
-    readonly classicalParallelism: number;
-    readonly oracleToffolis: number | null;
-    readonly walkStepToffolis: number | null;
-    readonly annealStepToffolis: number | null;
-  };
+  readonly costModel: CostModelSettings;
   readonly report: { readonly fitFrom: number | null; readonly resamples: number };
 }
 
@@ -48,8 +46,8 @@ export interface InstanceRef {
   readonly file: string;
 }
 
-/** What a cell computes. */
-export type CellKind = "truth" | "run" | "spectral";
+/** What a cell computes: ground truth, a randomised solver's trials, or a predictor's numerics. */
+export type CellKind = "truth" | "run" | "predict";
 
 /** A unit of work and of journalling. */
 export interface Cell {
@@ -57,7 +55,7 @@ export interface Cell {
   readonly key: string;
   readonly kind: CellKind;
   readonly instance: InstanceRef;
-  /** Solver name (runs), "exhaustive" (truth), "spectral". */
+  /** Solver name (runs, truth) or predictor name (predict). */
   readonly method: string;
   /** Run length (walk flips per trial, anneal sweeps) or b for spectral; null for truth. */
   readonly runLength: number | null;
@@ -96,20 +94,41 @@ export function cellsOfInstance(spec: StudySpec, inst: InstanceRef): Cell[] {
   const cells: Cell[] = [
     { key: truthKey(inst), kind: "truth", instance: inst, method: "exhaustive", runLength: null, seed: cellSeed(spec, inst, "exhaustive", null) },
   ];
-  const isCnf = spec.family === "ksat" || spec.family === "cnf";
-  for (const solver of spec.solvers) {
-    if (solver === "walk" && isCnf) {
-      const len = spec.walkFlipsPerVariable * inst.n;
-      cells.push(runCell(spec, inst, "walk", len));
-    }
-    if (solver === "anneal") for (const sweeps of spec.sweeps) cells.push(runCell(spec, inst, "anneal", sweeps));
+  const target = { family: spec.family, kind: familyNamed(spec.family).kind };
+  const study = solverStudyOf(spec);
+  for (const name of spec.solvers) {
+    const solver = trialsSolverNamed(name);
+    if (solver.appliesTo(target) !== null) continue;
+    for (const len of solver.runLengths(inst.n, study)) cells.push(runCell(spec, inst, name, len));
   }
-  if (spec.predictors.includes("spectral")) {
-    for (const b of spec.spectral.bValues) {
-      cells.push({ key: `spectral|${inst.n}|${inst.index}|${b}`, kind: "spectral", instance: inst, method: "spectral", runLength: b, seed: cellSeed(spec, inst, "spectral", b) });
+  for (const name of spec.predictors) {
+    const cell = predictorNamed(name).cell;
+    if (!cell) continue;
+    for (const v of cell.params(study.options)) {
+      cells.push({ key: `${name}|${inst.n}|${inst.index}|${v}`, kind: "predict", instance: inst, method: name, runLength: v, seed: cellSeed(spec, inst, name, v) });
     }
   }
   return cells;
+}
+
+/**
+ * The resolved method options of a study, keyed by option-table name, as solvers and predictors read them.
+ * (The spec keeps its historical field names so that spec.json, compared as text on resume, does not change.)
+ */
+export function methodOptionsOf(spec: StudySpec): MethodOptions {
+  return {
+    "walk-flips": spec.walkFlipsPerVariable,
+    "anneal-sweeps": spec.sweeps,
+    "anneal-cooling": spec.schedule,
+    "anneal-beta": spec.beta,
+    "spectral-b": spec.spectral.bValues,
+    "spectral-eta": spec.spectral.eta,
+  };
+}
+
+/** What a randomised solver sees of a study. */
+export function solverStudyOf(spec: StudySpec): SolverStudy {
+  return { trials: spec.trials, options: methodOptionsOf(spec) };
 }
 
 function runCell(spec: StudySpec, inst: InstanceRef, solver: string, runLength: number): Cell {

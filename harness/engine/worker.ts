@@ -2,14 +2,12 @@
  * Worker entry for the piscina pool: rebuilds the instance from its seed (or file), runs one solver or
  * predictor, and returns a small result. The wall clock is read here, around the pure computation.
  */
-import { materialise, type InstanceContext } from "./families/registry.js";
-import type { GeneratedInstance } from "./families/types.js";
-import { costTolerance, meanCost } from "./model/problem.js";
-import type { SpectralAnswer, Task, TrialsAnswer, TruthSliceAnswer } from "./tasks.js";
-import { exhaustiveSlice } from "../solvers/exhaustive.js";
-import { walkTrials } from "../solvers/walk.js";
-import { annealTrials, defaultBetaRange } from "../solvers/anneal.js";
-import { computeSpectral } from "./predict/spectral-cell.js";
+import { materialise, type InstanceContext } from "../families/registry.js";
+import type { GeneratedInstance } from "../families/types.js";
+import { costTolerance, meanCost } from "../model/problem.js";
+import type { PredictAnswer, Task, TrialsAnswer, TruthSliceAnswer } from "./tasks.js";
+import { exactSolverNamed, trialsSolverNamed } from "../../solvers/registry.js";
+import { predictorNamed } from "../predict/registry.js";
 
 // Slices and runs of one instance usually reach the same worker in a row; regenerating is cheap for plain
 // draws but costs exact enumerations for --satisfiable/--unique, so the last instance is kept.
@@ -29,50 +27,37 @@ function elapsed(start: bigint): number {
   return Number(process.hrtime.bigint() - start);
 }
 
-/** Piscina calls the default export once per task. */
-export default function handle(task: Task): TruthSliceAnswer | TrialsAnswer | SpectralAnswer {
+/** Piscina calls the default export once per task; the method comes from its registry, never a switch on names. */
+export default function handle(task: Task): TruthSliceAnswer | TrialsAnswer | PredictAnswer {
   // Tell the run loop that computing starts now: cell limits count from here, not from the queue.
   Atomics.store(task.stop, 1, 1);
   switch (task.type) {
     case "truth-slice": {
+      const solver = exactSolverNamed(task.solver);
       const inst = instanceFor(task.ctx);
       const start = process.hrtime.bigint();
-      const result = exhaustiveSlice(inst.problem, task.slice, task.stop);
+      const result = solver.run(inst.problem, task.part, task.stop);
       return { result, wall_ns: elapsed(start), meta: inst.meta, seed: inst.seed, mean: meanCost(inst.problem) };
     }
     case "trials": {
       injectFault(task.ctx);
+      const solver = trialsSolverNamed(task.solver);
       const inst = instanceFor(task.ctx);
-      if (task.solver === "walk") {
-        if (inst.problem.kind !== "cnf") throw new Error("walk applies to CNF instances only");
-        const start = process.hrtime.bigint();
-        const result = walkTrials(inst.problem.cnf, { trials: task.trials, maxFlips: task.runLength, seed: task.seed, stop: task.stop, firstTrial: 0 });
-        return { result, wall_ns: elapsed(start), beta_start: null, beta_end: null };
-      }
-      const range = task.beta ?? (() => {
-        const r = defaultBetaRange(inst.problem);
-        return [r.betaStart, r.betaEnd] as const;
-      })();
+      // Instance-dependent set-up (e.g. the annealer's temperature range) is not part of the timed run.
+      const settings = solver.prepare ? solver.prepare(inst.problem, task.settings) : task.settings;
       const tolerance = costTolerance(inst.problem);
       const start = process.hrtime.bigint();
-      const result = annealTrials(inst.problem, {
-        trials: task.trials,
-        sweeps: task.runLength,
-        betaStart: range[0],
-        betaEnd: range[1],
-        schedule: task.schedule,
-        target: task.target,
-        tolerance,
-        seed: task.seed,
-        stop: task.stop,
-        firstTrial: 0,
+      const result = solver.run(inst.problem, {
+        trials: task.trials, runLength: task.runLength, seed: task.seed, target: task.target, tolerance, settings, stop: task.stop,
       });
-      return { result, wall_ns: elapsed(start), beta_start: range[0], beta_end: range[1] };
+      return { result, wall_ns: elapsed(start) };
     }
-    case "spectral": {
+    case "predict": {
+      const cell = predictorNamed(task.predictor).cell;
+      if (!cell) throw new Error(`predictor '${task.predictor}' has no worker-side numerics`);
       const inst = instanceFor(task.ctx);
       const start = process.hrtime.bigint();
-      const row = computeSpectral(inst.problem, task.optimum, task.b, task.eta);
+      const row = cell.run(inst.problem, { param: task.param, optimum: task.optimum, options: task.options, stop: task.stop });
       return { row, wall_ns: elapsed(start) };
     }
   }

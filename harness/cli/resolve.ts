@@ -2,17 +2,16 @@
  * Validation at the edge: turns parsed command-line values into a frozen {@link StudySpec}. Every problem
  * becomes an InputError naming the option and the value (exit code 2).
  */
-import { existsSync, readdirSync, readFileSync, statSync } from "node:fs";
+import { existsSync, readdirSync, statSync } from "node:fs";
 import { join, resolve } from "node:path";
-import { InputError } from "./errors.js";
-import { FOLDER_FAMILIES, loadInstanceFile } from "./families/registry.js";
-import { defaultDensity } from "./families/ksat.js";
-import { FAMILY_NAMES, PREDICTOR_NAMES, SOLVER_NAMES, STUDY_OPTIONS, type OptionSpec } from "./options.js";
-import type { StudySpec } from "./study.js";
-import { sizeOf } from "./model/problem.js";
-import { CNF_COUNT_MAX_VARIABLES } from "../solvers/exact-cnf-truth.js";
-import { SPIN_EXACT_MAX } from "../solvers/exhaustive-spin.js";
-import { lanczosMaxN } from "./predict/lanczos.js";
+import { InputError } from "../errors.js";
+import { familyNamed, folderFamily } from "../families/registry.js";
+import type { Family, FamilyParams, ParamReader } from "../families/types.js";
+import { COOLING_INTERNAL, COOLING_LAWS, optionSpec, type OptionSpec } from "./options.js";
+import type { StudySpec } from "../engine/study.js";
+import { sizeOf } from "../model/problem.js";
+import { PREDICTOR_NAMES, predictorNamed } from "../predict/registry.js";
+import { EXACT_SOLVER_NAMES, SOLVER_NAMES, groundTruthSolver, trialsSolverNamed } from "../../solvers/registry.js";
 
 type Argv = Readonly<Record<string, unknown>>;
 
@@ -52,9 +51,7 @@ export function parseShard(text: string): { k: number; count: number } {
 }
 
 function spec(name: string): OptionSpec {
-  const s = STUDY_OPTIONS.find((o) => o.name === name);
-  if (!s) throw new Error(`no option ${name}`);
-  return s;
+  return optionSpec(name);
 }
 
 /** Reads a numeric option with its declared range. */
@@ -89,123 +86,124 @@ function numberList(text: string, option: string): number[] {
   });
 }
 
+/** The option table as a family sees it (values range-checked against their declarations). */
+export function paramReader(argv: Argv): ParamReader {
+  return {
+    number: (option) => numberOption(argv, option) as number,
+    given: (option) => argv[option] !== undefined,
+    flag: (option) => argv[option] === true,
+    text: (option) => String(argv[option] ?? spec(option).default ?? ""),
+  };
+}
+
 /** Family parameters that determine instances, resolved with defaults (these are hashed into seeds). */
-export function resolveFamilyParams(argv: Argv, family: string): Record<string, number | string | boolean> {
-  switch (family) {
-    case "ksat": {
-      const k = numberOption(argv, "k") as number;
-      const density = argv.density === undefined ? defaultDensity(k) : (numberOption(argv, "density") as number);
-      if (!(density > 0)) throw new InputError(`--density: must be positive, got ${density}`);
-      const unique = argv.unique === true;
-      return { k, density, planted: argv.planted === true, satisfiable: argv.satisfiable === true || unique, unique };
-    }
-    case "sk": {
-      const couplings = String(argv.couplings ?? "gauss");
-      if (!["gauss", "pm1"].includes(couplings)) throw new InputError(`--couplings: '${couplings}' is not gauss or pm1`);
-      return { couplings };
-    }
-    case "pspin":
-      return { p: numberOption(argv, "p") as number };
-    case "maxcut":
-      return { degree: numberOption(argv, "degree") as number };
-    default:
-      return {};
+export function resolveFamilyParams(argv: Argv, family: string): FamilyParams {
+  return familyNamed(family).resolveParams(paramReader(argv));
+}
+
+/**
+ * Every size limit of a study, checked once here at the edge (exit code 2): what the family can draw, what
+ * the ground-truth solver can enumerate, and what each predictor's numerics can hold.
+ */
+export function checkLimits(family: Family, params: FamilyParams, sizes: ReadonlyArray<number>, predictors: ReadonlyArray<string>, folder: boolean): void {
+  for (const n of sizes) {
+    const why = family.checkSize(n, params);
+    if (why !== null) throw new InputError(why);
+  }
+  const largest = sizes[sizes.length - 1];
+  const symmetric = family.flipSymmetric(params);
+  const exact = groundTruthSolver(family.kind, symmetric, largest);
+  const limit = exact.maxSize(family.kind, symmetric);
+  if (largest > limit) {
+    const where = folder ? `--from: a file has n = ${largest}` : `--n: size ${largest}`;
+    throw new InputError(`${where} is beyond the exact ground-truth limit of ${limit} for this family (the largest n an exact solver accepts: ${exact.name})`);
+  }
+  for (const name of predictors) {
+    const cell = predictorNamed(name).cell;
+    if (!cell) continue;
+    const max = cell.maxSize(family.kind, symmetric);
+    if (largest > max) throw new InputError(`--predict: ${name} needs n ≤ ${max} (state vectors within 2 GiB), but --n reaches ${largest}`);
   }
 }
 
 /** Lists a folder's instance files (sorted) for the cnf / ising families, with their sizes. */
 export function listInstanceFolder(family: string, from: unknown): Array<{ file: string; n: number }> {
+  const reader = folderFamily(family);
   if (from === undefined || from === "") throw new InputError(`--from: family '${family}' reads a folder of files; give --from DIR`);
   const dir = resolve(String(from));
   if (!existsSync(dir)) throw new InputError(`--from: folder '${String(from)}' does not exist`);
   if (!statSync(dir).isDirectory()) throw new InputError(`--from: '${String(from)}' is not a folder`);
-  const ext = family === "cnf" ? /\.cnf$/i : /\.(txt|ising|couplings)$/i;
-  const names = readdirSync(dir).filter((f) => ext.test(f)).sort();
+  const names = readdirSync(dir).filter((f) => reader.fileExtensions.test(f)).sort();
   if (names.length === 0) {
-    throw new InputError(`--from: folder '${String(from)}' has no ${family === "cnf" ? ".cnf" : ".txt/.ising/.couplings"} files`);
+    throw new InputError(`--from: folder '${String(from)}' has no ${reader.fileWords} files`);
   }
   return names.map((name) => {
     const file = join(dir, name);
-    return { file, n: sizeOf(loadInstanceFile(family, file).problem) };
+    return { file, n: sizeOf(reader.load(file).problem) };
   });
 }
 
 /** Turns parsed options into a frozen study spec, validating everything. */
 export function resolveStudy(argv: Argv): StudySpec {
-  const family = String(argv.family ?? "ksat");
-  if (!(FAMILY_NAMES as ReadonlyArray<string>).includes(family)) {
-    throw new InputError(`--family: unknown family '${family}' (choose from ${FAMILY_NAMES.join(", ")})`);
-  }
-  const folder = FOLDER_FAMILIES.has(family);
+  const family = String(argv.family ?? spec("family").default);
+  const fam = familyNamed(family);
+  const folder = fam.source === "folder";
   const files = folder ? listInstanceFolder(family, argv.from) : [];
   const sizes = folder ? [...new Set(files.map((f) => f.n))].sort((a, b) => a - b) : parseSizeRange(String(argv.n ?? spec("n").default));
-  const familyParams = resolveFamilyParams(argv, family);
-  const isCnf = family === "ksat" || family === "cnf";
-  // issue 16: CNF ground truth is enumerated up to n = 30 and counted (model counter, MaxSAT) beyond.
-  const limit = isCnf ? CNF_COUNT_MAX_VARIABLES : SPIN_EXACT_MAX;
-  const largest = sizes[sizes.length - 1];
-  if (largest > limit) {
-    const where = folder ? `--from: a file has n = ${largest}` : `--n: size ${largest}`;
-    const what = isCnf
-      ? `the exact ground-truth limit of ${limit} for CNF (model counting and MaxSAT branch and bound)`
-      : `the exact-enumeration limit of ${limit} for this family (ground truth needs all 2^n configurations)`;
-    throw new InputError(`${where} is beyond ${what}`);
-  }
-  if (family === "ksat" && sizes[0] < (familyParams.k as number)) {
-    throw new InputError(`--n: size ${sizes[0]} is smaller than k = ${familyParams.k}`);
-  }
-  if (family === "pspin" && sizes[0] < (familyParams.p as number)) {
-    throw new InputError(`--n: size ${sizes[0]} is smaller than p = ${familyParams.p}`);
-  }
-  if (family === "maxcut") {
-    const d = familyParams.degree as number;
-    for (const n of sizes) {
-      if (n <= d || (n * d) % 2 === 1) throw new InputError(`--n: no simple ${d}-regular graph on ${n} vertices (need n > d and n·d even)`);
-    }
-  }
-  const solvers = listOption(argv, "solvers", SOLVER_NAMES).filter((s) => s !== "exhaustive");
-  if (solvers.includes("walk") && !isCnf) {
-    if (argv.solvers !== undefined) throw new InputError(`--solvers: walk (Schöning) applies to k-SAT/CNF families only, not '${family}'`);
-    solvers.splice(solvers.indexOf("walk"), 1); // the default list names it for k-SAT studies
+  const familyParams = fam.resolveParams(paramReader(argv));
+  const target = { family, kind: fam.kind };
+  const solvers = listOption(argv, "solvers", SOLVER_NAMES).filter((s) => !EXACT_SOLVER_NAMES.includes(s));
+  for (const name of [...solvers]) {
+    const why = trialsSolverNamed(name).appliesTo(target);
+    if (why === null) continue;
+    if (argv.solvers !== undefined) throw new InputError(`--solvers: ${why}`);
+    solvers.splice(solvers.indexOf(name), 1); // the default list names every solver
   }
   const predictors = listOption(argv, "predict", PREDICTOR_NAMES);
-  if (predictors.includes("amplified-walk") && !solvers.includes("walk")) {
-    if (argv.predict !== undefined) throw new InputError(`--predict: amplified-walk needs the walk solver in --solvers`);
-    predictors.splice(predictors.indexOf("amplified-walk"), 1);
+  for (const name of [...predictors]) {
+    const p = predictorNamed(name);
+    const why = p.appliesTo(target) ?? (p.amplifies !== undefined && !solvers.includes(p.amplifies) ? `${name} needs the ${p.amplifies} solver in --solvers` : null);
+    if (why === null) continue;
+    if (argv.predict !== undefined) throw new InputError(`--predict: ${why}`);
+    predictors.splice(predictors.indexOf(name), 1);
   }
-  if (predictors.includes("amplified-anneal") && !solvers.includes("anneal")) {
-    if (argv.predict !== undefined) throw new InputError(`--predict: amplified-anneal needs the anneal solver in --solvers`);
-    predictors.splice(predictors.indexOf("amplified-anneal"), 1);
-  }
-  // Spectral numerics keep a few 2^n state vectors: 2 GiB allows n ≤ 24 (25 for spin-flip-symmetric models).
-  const spectralMax = lanczosMaxN(family === "sk" || family === "maxcut" ? "symmetric" : "all");
-  if (predictors.includes("spectral") && largest > spectralMax) {
-    throw new InputError(`--predict: spectral needs n ≤ ${spectralMax} (state vectors within 2 GiB), but --n reaches ${largest}`);
-  }
+  checkLimits(fam, familyParams, sizes, predictors, folder);
   const walkFlipsText = String(argv["walk-flips"] ?? spec("walk-flips").default);
   const wf = /^(\d+(?:\.\d+)?)n$/.exec(walkFlipsText);
   if (!wf) throw new InputError(`--walk-flips: '${walkFlipsText}' is not of the form Kn (e.g. 3n)`);
   const walkFlipsPerVariable = Number(wf[1]);
   if (!(walkFlipsPerVariable > 0)) throw new InputError(`--walk-flips: must be positive, got '${walkFlipsText}'`);
-  const sweeps = numberList(String(argv.sweeps ?? spec("sweeps").default), "--sweeps").map((s) => {
-    if (!Number.isInteger(s)) throw new InputError(`--sweeps: '${s}' is not a whole number`);
+  const sweeps = numberList(String(argv["anneal-sweeps"] ?? spec("anneal-sweeps").default), "--anneal-sweeps").map((s) => {
+    if (!Number.isInteger(s)) throw new InputError(`--anneal-sweeps: '${s}' is not a whole number`);
     return s;
   });
-  const schedule = String(argv.schedule ?? "geometric");
-  if (schedule !== "linear" && schedule !== "geometric") throw new InputError(`--schedule: '${schedule}' is not linear or geometric`);
+  const cooling = String(argv["anneal-cooling"] ?? spec("anneal-cooling").default);
+  const schedule = COOLING_INTERNAL[cooling];
+  if (schedule === undefined) throw new InputError(`--anneal-cooling: '${cooling}' is not ${COOLING_LAWS.join(" or ")}`);
   let beta: [number, number] | null = null;
-  if (argv.beta !== undefined) {
-    const parts = String(argv.beta).split(":").map(Number);
+  if (argv["anneal-temperature"] !== undefined && argv["anneal-beta"] !== undefined) {
+    throw new InputError(`--anneal-temperature: give the range once (not also as --anneal-beta/--beta)`);
+  }
+  if (argv["anneal-temperature"] !== undefined) {
+    const text = String(argv["anneal-temperature"]);
+    const parts = text.split(":").map(Number);
+    if (parts.length !== 2 || !parts.every((x) => Number.isFinite(x) && x > 0) || parts[1] > parts[0]) {
+      throw new InputError(`--anneal-temperature: '${text}' is not HOT:COLD with HOT ≥ COLD > 0 (hot end first)`);
+    }
+    beta = [1 / parts[0], 1 / parts[1]];
+  }
+  if (argv["anneal-beta"] !== undefined) {
+    const parts = String(argv["anneal-beta"]).split(":").map(Number);
     if (parts.length !== 2 || !parts.every((x) => Number.isFinite(x) && x > 0) || parts[1] < parts[0]) {
-      throw new InputError(`--beta: '${String(argv.beta)}' is not START:END with 0 < START ≤ END`);
+      throw new InputError(`--anneal-beta: '${String(argv["anneal-beta"])}' is not START:END with 0 < START ≤ END`);
     }
     beta = [parts[0], parts[1]];
   }
-  let bValues = [numberOption(argv, "b") as number];
-  if (argv["b-scan"] !== undefined) {
-    const parts = String(argv["b-scan"]).split(":").map(Number);
+  let bValues = [numberOption(argv, "spectral-b") as number];
+  if (argv["spectral-b-scan"] !== undefined) {
+    const parts = String(argv["spectral-b-scan"]).split(":").map(Number);
     if (parts.length !== 3 || !parts.every(Number.isFinite) || parts[2] <= 0 || parts[1] < parts[0] || parts[0] < 0) {
-      throw new InputError(`--b-scan: '${String(argv["b-scan"])}' is not FROM:TO:STEP with 0 ≤ FROM ≤ TO and STEP > 0`);
+      throw new InputError(`--spectral-b-scan: '${String(argv["spectral-b-scan"])}' is not FROM:TO:STEP with 0 ≤ FROM ≤ TO and STEP > 0`);
     }
     bValues = [];
     for (let i = 0; parts[0] + i * parts[2] <= parts[1] + 1e-12; i++) bValues.push(Number((parts[0] + i * parts[2]).toPrecision(12)));
@@ -224,7 +222,7 @@ export function resolveStudy(argv: Argv): StudySpec {
     schedule,
     beta,
     predictors,
-    spectral: { bValues, eta: numberOption(argv, "eta") as number },
+    spectral: { bValues, eta: numberOption(argv, "spectral-eta") as number },
     costModel: resolveCostModel(argv),
     report: { fitFrom: optionalNumber(argv, "fit-from"), resamples: numberOption(argv, "resamples") as number },
   };
@@ -255,16 +253,4 @@ function deepFreeze<T>(o: T): T {
     Object.freeze(o);
   }
   return o;
-}
-
-/** Reads the study spec a folder holds (spec.json), for `report`, `compare` and `merge`. */
-export function readStudyFolder(dir: string): { spec: StudySpec; shard: { k: number; count: number } | null } {
-  const path = join(dir, "spec.json");
-  if (!existsSync(dir)) throw new InputError(`${dir}: folder does not exist`);
-  if (!existsSync(path)) throw new InputError(`${dir}: not a speedbound output folder (no spec.json)`);
-  try {
-    return JSON.parse(readFileSync(path, "utf8")) as { spec: StudySpec; shard: { k: number; count: number } | null };
-  } catch {
-    throw new InputError(`${path}:1: spec.json does not parse`);
-  }
 }

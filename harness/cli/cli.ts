@@ -5,9 +5,9 @@
  */
 import yargs, { type Argv, type Options } from "yargs";
 import { hideBin } from "yargs/helpers";
-import { EXIT, InputError } from "./errors.js";
-import { STUDY_OPTIONS, type OptionSpec } from "./options.js";
-import * as commands from "./commands.js";
+import { EXIT, InputError } from "../errors.js";
+import { optionsOf, type CommandName, type OptionSpec } from "./options.js";
+import * as commands from "./commands/index.js";
 
 function yargsType(o: OptionSpec): Options["type"] {
   if (o.type === "boolean") return "boolean";
@@ -23,23 +23,30 @@ function describe(o: OptionSpec): string {
   return bits.join(" ");
 }
 
-/** Adds the declared options of the given groups to a command. */
-function withOptions(y: Argv, groups: ReadonlyArray<OptionSpec["group"]>, skip: ReadonlyArray<string> = []): Argv {
-  for (const o of STUDY_OPTIONS) {
-    if (!groups.includes(o.group) || skip.includes(o.name)) continue;
+/**
+ * Adds every option the table declares for `command`, with its default for that command shown (not applied:
+ * resolve.ts applies defaults, since it must tell "not given" from "given the default value"). Old spellings
+ * are declared as hidden options and copied onto the new name before the command runs.
+ */
+function withOptions(y: Argv, command: CommandName): Argv {
+  for (const o of optionsOf(command)) {
+    const shown = o.commandDefaults?.[command] ?? o.default;
     y = y.option(o.name, {
       type: yargsType(o),
       describe: describe(o),
-      // Defaults are applied by resolve.ts, which must tell "not given" from "given the default value".
-      defaultDescription: o.default === undefined ? undefined : String(o.default),
+      defaultDescription: shown === undefined ? undefined : String(shown),
+      hidden: o.hidden === true,
       group: `${o.group[0].toUpperCase()}${o.group.slice(1)} options:`,
       requiresArg: o.type !== "boolean",
     });
+    for (const alias of o.aliases ?? []) y = y.option(alias, { type: yargsType(o), hidden: true, requiresArg: o.type !== "boolean" });
   }
-  return y;
+  return y.middleware((argv) => {
+    for (const o of optionsOf(command)) {
+      for (const alias of o.aliases ?? []) if (argv[o.name] === undefined && argv[alias] !== undefined) argv[o.name] = argv[alias];
+    }
+  });
 }
-
-const STUDY_GROUPS = ["study", "family", "solvers", "predictors", "cost model", "run", "report"] as const;
 
 async function main(): Promise<number> {
   const args = hideBin(process.argv);
@@ -50,30 +57,30 @@ async function main(): Promise<number> {
   await yargs(args)
     .scriptName("speedbound")
     .usage("$0 <command> [options]\n\nMeasured classical scaling against predicted quantum costs on the same seeded instances.")
-    .command("run", "generate instances, compute ground truth, time solvers, predict quantum costs, write tables", (y) => withOptions(y, STUDY_GROUPS), async (a) => set(await commands.run(a, args)))
+    .command("run", "generate instances, compute ground truth, time solvers, predict quantum costs, write tables", (y) => withOptions(y, "run"), async (a) => set(await commands.run(a, args)))
     .command("demo", "a small 3-SAT study (n = 12..26, satisfiable draws) into results/demo, with a summary", (y) => y, async () => set(await commands.demo()))
     .command(
       "solve <file>",
       "exact optimum and degeneracy of one DIMACS CNF or coupling-list file",
-      (y) => withOptions(y.positional("file", { type: "string", describe: "instance file" }).option("json", { type: "boolean", describe: "print one JSON object" }), ["run"], ["budget", "cell-limit", "shard"]),
+      (y) => withOptions(y.positional("file", { type: "string", describe: "instance file" }), "solve"),
       async (a) => set(await commands.solve(a)),
     )
     .command(
       "instance",
       "print one generated instance (DIMACS CNF for ksat, coupling list for spin families) to stdout",
-      (y) => withOptions(y, ["study", "family"], ["out", "instances"]).option("index", { type: "string", default: "0", describe: "instance index (0-based)" }),
+      (y) => withOptions(y, "instance"),
       async (a) => set(await commands.instance(a)),
     )
     .command(
       "report <dir>",
       "rebuild every table, fit and plot of an output folder from its journal",
-      (y) => withOptions(y.positional("dir", { type: "string" }), ["report"]),
+      (y) => withOptions(y.positional("dir", { type: "string" }), "report"),
       async (a) => set(await commands.report(a)),
     )
     .command(
       "spectral <file>",
       "spectral-method numerics (ground state of the filtered Hamiltonian) for one instance file",
-      (y) => withOptions(y.positional("file", { type: "string" }).option("json", { type: "boolean", describe: "print one JSON object" }), ["predictors"], ["predict"]),
+      (y) => withOptions(y.positional("file", { type: "string" }), "spectral"),
       async (a) => set(await commands.spectral(a)),
     )
     .command(
@@ -86,27 +93,20 @@ async function main(): Promise<number> {
       "compare <old> <new>",
       "night-to-night check of two runs of one study; exit code 1 on a regression",
       (y) =>
-        y
-          .positional("old", { type: "string", describe: "earlier output folder" })
-          .positional("new", { type: "string", describe: "later output folder" })
-          .option("tolerance", { type: "string", default: "0.25", describe: "relative change in time per step that counts as a change" }),
+        withOptions(
+          y.positional("old", { type: "string", describe: "earlier output folder" }).positional("new", { type: "string", describe: "later output folder" }),
+          "compare",
+        ),
       async (a) => set(await commands.compare(a)),
     )
     .command(
       "slurm",
       "write sbatch scripts that run a study as a Slurm job array of --shards slices plus a merge job",
       (y) =>
-        withOptions(y, STUDY_GROUPS, ["shard", "workers"])
-          .option("shards", { type: "string", demandOption: true, describe: "number of array tasks (study slices)" })
-          .option("cpus-per-task", { type: "string", default: "2", describe: "cores per array task (the run's --workers)" })
-          .option("time", { type: "string", describe: "time limit per array task (Slurm format, e.g. 04:00:00)" })
-          .option("partition", { type: "string", describe: "Slurm partition" })
-          .option("account", { type: "string", describe: "Slurm account" })
-          .option("mem-per-cpu", { type: "string", describe: "memory per core (Slurm format, e.g. 2G)" })
-          .option("job-name", { type: "string", default: "speedbound", describe: "job name" }),
+        withOptions(y, "slurm").demandOption("shards"),
       async (a) => set(await commands.slurm(a, args)),
     )
-    .command("cost", "print the fault-tolerant cost model's assumptions and a worked example", (y) => withOptions(y, ["cost model"]), async (a) => set(await commands.cost(a)))
+    .command("cost", "print the fault-tolerant cost model's assumptions and a worked example", (y) => withOptions(y, "cost"), async (a) => set(await commands.cost(a)))
     .demandCommand(1, "give a command (see --help)")
     .strict()
     .recommendCommands()

@@ -4,19 +4,19 @@
  * sizes. Every finished cell goes to the journal at once; tables are rebuilt from the journal at the end, so a
  * killed run resumes where it stopped and ends with the same tables.
  */
-import { existsSync, mkdirSync, readFileSync } from "node:fs";
 import { join } from "node:path";
-import { InputError } from "./errors.js";
-import type { InstanceContext } from "./families/registry.js";
+import type { InstanceContext } from "../families/registry.js";
 import { JournalWriter, readJournal, type JournalRecord, type RunRecord, type SpectralRecord, type TruthRecord } from "./journal.js";
 import { WorkerPool } from "./pool.js";
+import { StopControl } from "./stop.js";
+import { computeGroundTruth } from "./ground-truth.js";
 import type { Progress } from "./progress.js";
-import { type Cell, type InstanceRef, type StudySpec, cellsOfInstance, instancesOf, shardInstances } from "./study.js";
-import type { SpectralAnswer, TrialsAnswer, TruthSliceAnswer } from "./tasks.js";
-import { writeFileAtomic } from "./files.js";
-import { mergeExact, planSlices } from "../solvers/exhaustive.js";
-import { materialise } from "./families/registry.js";
-import { costTolerance } from "./model/problem.js";
+import { OUT_FILES, prepareOutput } from "./output-folder.js";
+import type { RunSummary } from "./run-summary.js";
+import { type Cell, type InstanceRef, type StudySpec, cellsOfInstance, instancesOf, methodOptionsOf, shardInstances, solverStudyOf } from "./study.js";
+import type { PredictAnswer, TrialsAnswer } from "./tasks.js";
+import { trialsSolverNamed } from "../../solvers/registry.js";
+import { familyNamed, materialise } from "../families/registry.js";
 
 /** How a run is carried out (not part of the study's identity). */
 export interface RunOptions {
@@ -33,51 +33,7 @@ export interface RunOptions {
   readonly graceMs: number;
 }
 
-/** What a run did. */
-export interface RunSummary {
-  readonly cellsTotal: number;
-  readonly cellsDone: number;
-  readonly cellsResumed: number;
-  readonly errors: number;
-  readonly censored: number;
-  readonly skipped: number;
-  readonly completeSizes: number[];
-  readonly incompleteSizes: number[];
-  readonly interrupted: NodeJS.Signals | null;
-  readonly tornJournalLine: boolean;
-}
-
-/** How often the cell limit is checked (ms); a cell may overrun its limit by about this much. */
-export const LIMIT_POLL_MS = 25;
-
-/** File names inside an output folder. */
-export const OUT_FILES = { spec: "spec.json", journal: "journal.jsonl", manifest: "manifest.json" } as const;
-
-/**
- * Checks the output folder: creates it, or, when it already holds a study, insists it is the same study
- * (compared on the resolved spec, not the command line), so that a rerun resumes instead of mixing studies.
- */
-export function prepareOutput(spec: StudySpec, out: string, shard: RunOptions["shard"]): void {
-  try {
-    mkdirSync(out, { recursive: true });
-  } catch (e) {
-    throw new InputError(`--out: cannot create '${out}' (${(e as NodeJS.ErrnoException).code ?? String(e)})`);
-  }
-  const specPath = join(out, OUT_FILES.spec);
-  const identity = JSON.stringify({ spec, shard }, null, 2) + "\n";
-  if (existsSync(specPath)) {
-    const previous = readFileSync(specPath, "utf8");
-    if (previous !== identity) {
-      throw new InputError(`--out: '${out}' holds a different study (see its ${OUT_FILES.spec}); choose another folder or remove it`);
-    }
-    return;
-  }
-  try {
-    writeFileAtomic(specPath, identity);
-  } catch (e) {
-    throw new InputError(`--out: cannot write in '${out}' (${(e as NodeJS.ErrnoException).code ?? String(e)})`);
-  }
-}
+export { LIMIT_POLL_MS } from "./stop.js";
 
 /** Runs (or resumes) a study. Resolves when every cell is journalled, skipped by the budget, or interrupted. */
 export async function runStudy(spec: StudySpec, options: RunOptions): Promise<RunSummary> {
@@ -93,37 +49,9 @@ export async function runStudy(spec: StudySpec, options: RunOptions): Promise<Ru
   const sizes = [...new Set(mine.map((i) => i.n))].sort((a, b) => a - b);
   const cellsTotal = mine.reduce((s, inst) => s + cellsOfInstance(spec, inst).length, 0);
 
-  const state = {
-    done: 0,
-    resumed: 0,
-    errors: 0,
-    censored: 0,
-    skipped: 0,
-    stopping: false as boolean,
-    signal: null as NodeJS.Signals | null,
-    deadline: options.budgetMs === null ? Infinity : Date.now() + options.budgetMs,
-  };
-  const running = new Set<Int32Array>();
-  const stopAll = (): void => {
-    for (const flag of running) Atomics.store(flag, 0, 1);
-  };
-  let budgetTimer: NodeJS.Timeout | null = null;
-  if (options.budgetMs !== null) {
-    budgetTimer = setTimeout(() => {
-      state.stopping = true;
-      stopAll();
-    }, options.budgetMs);
-  }
-  let graceTimer: NodeJS.Timeout | null = null;
-  const onSignal = (signal: NodeJS.Signals): void => {
-    if (state.signal) return;
-    state.signal = signal;
-    state.stopping = true;
-    options.progress.note(`${signal}: no new cells; running ones get ${options.graceMs / 1000} s to finish`);
-    graceTimer = setTimeout(stopAll, options.graceMs);
-  };
-  process.on("SIGINT", onSignal);
-  process.on("SIGTERM", onSignal);
+  const state = { done: 0, resumed: 0, errors: 0, censored: 0, skipped: 0 };
+  const stop = new StopControl({ budgetMs: options.budgetMs, cellLimitMs: options.cellLimitMs, graceMs: options.graceMs, note: (line) => options.progress.note(line) });
+  const withStopFlag = <T>(body: (flag: Int32Array) => Promise<T>): Promise<T> => stop.withStopFlag(body);
 
   const pool = new WorkerPool(options.workers);
   const record = (r: JournalRecord): void => {
@@ -135,35 +63,9 @@ export async function runStudy(spec: StudySpec, options: RunOptions): Promise<Ru
     options.progress.tick(r.key);
   };
 
-  /**
-   * A fresh stop flag for one cell, raised by the cell limit, the budget or a signal's grace period. Element 1
-   * is set by the worker when it starts computing, so the cell limit counts computing time, not time spent
-   * waiting in the pool's queue (checked every {@link LIMIT_POLL_MS} ms).
-   */
-  const started = new Map<Int32Array, number>();
-  const limitTimer =
-    options.cellLimitMs === null
-      ? null
-      : setInterval(() => {
-          const now = Date.now();
-          for (const flag of running) {
-            if (Atomics.load(flag, 1) === 0) continue;
-            const t0 = started.get(flag);
-            if (t0 === undefined) started.set(flag, now);
-            else if (now - t0 >= (options.cellLimitMs as number)) Atomics.store(flag, 0, 1);
-          }
-        }, LIMIT_POLL_MS);
-  const withStopFlag = async <T>(body: (flag: Int32Array) => Promise<T>): Promise<T> => {
-    const flag = new Int32Array(new SharedArrayBuffer(8));
-    running.add(flag);
-    try {
-      return await body(flag);
-    } finally {
-      running.delete(flag);
-      started.delete(flag);
-    }
-  };
-
+  const problemKind = familyNamed(spec.family).kind;
+  const solverStudy = solverStudyOf(spec);
+  const methodOptions = methodOptionsOf(spec);
   const ctxOf = (inst: InstanceRef): InstanceContext => ({
     family: spec.family, params: spec.familyParams, masterSeed: spec.seed, n: inst.n, index: inst.index, file: inst.file,
   });
@@ -176,11 +78,7 @@ export async function runStudy(spec: StudySpec, options: RunOptions): Promise<Ru
         // The slice plan needs the problem's kind and symmetry only; generating in the main thread is cheap
         // except for --satisfiable/--unique, which the first worker answer would repeat anyway.
         const problem = materialise(ctxOf(inst)).problem;
-        const slices = planSlices(problem, options.workers);
-        const answers = await Promise.all(
-          slices.map((slice) => pool.run<TruthSliceAnswer>({ type: "truth-slice", ctx: ctxOf(inst), slice, stop: flag })),
-        );
-        const merged = mergeExact(answers.map((a) => a.result), costTolerance(problem));
+        const { merged, answers } = await computeGroundTruth(pool, problem, ctxOf(inst), options.workers, flag);
         const wall = answers.reduce((s, a) => s + a.wall_ns, 0);
         const status = merged.complete ? "ok" : "censored";
         return {
@@ -209,19 +107,19 @@ export async function runStudy(spec: StudySpec, options: RunOptions): Promise<Ru
         best: null, beta_start: null, beta_end: null, status: "error", wall_ns: 0, message: "", ...extra,
       });
       if (truth.status !== "ok" || truth.optimum === null) return rec(withoutTruth(truth));
-      if (cell.method === "walk" && truth.optimum > 0) {
-        return rec({ status: "skipped", message: "not applicable: unsatisfiable, and Schöning's walk only finds models" });
-      }
+      const solver = trialsSolverNamed(cell.method);
+      const skip = solver.skipReason({ kind: problemKind, optimum: truth.optimum });
+      if (skip !== null) return rec({ status: "skipped", message: skip });
       return withStopFlag(async (flag) => {
         try {
           const a = await pool.run<TrialsAnswer>({
-            type: "trials", ctx: ctxOf(inst), solver: cell.method as "walk" | "anneal", runLength: cell.runLength ?? 0,
-            trials: spec.trials, seed: cell.seed, target: truth.optimum as number, schedule: spec.schedule, beta: spec.beta, stop: flag,
+            type: "trials", ctx: ctxOf(inst), solver: cell.method, runLength: cell.runLength ?? 0,
+            trials: spec.trials, seed: cell.seed, target: truth.optimum as number, settings: solver.settings(solverStudy), stop: flag,
           });
           const r = a.result;
           return rec({
             status: r.censored ? "censored" : "ok", wall_ns: a.wall_ns, trials: r.trials, successes: r.successes, work: r.work,
-            best: Number.isFinite(r.best) ? r.best : null, beta_start: a.beta_start, beta_end: a.beta_end,
+            best: Number.isFinite(r.best) ? r.best : null, ...(r.extra as Partial<RunRecord> | undefined),
             message: r.censored ? `stopped by a time limit after ${r.trials} trials` : "",
           });
         } catch (e) {
@@ -230,12 +128,12 @@ export async function runStudy(spec: StudySpec, options: RunOptions): Promise<Ru
       });
     }
     const rec = (extra: Partial<SpectralRecord>): SpectralRecord => ({
-      ...base, kind: "spectral", b: cell.runLength ?? 0, row: {}, status: "error", wall_ns: 0, message: "", ...extra,
+      ...base, kind: "spectral", ...(cell.method === "spectral" ? {} : { predictor: cell.method }), b: cell.runLength ?? 0, row: {}, status: "error", wall_ns: 0, message: "", ...extra,
     });
     if (truth.status !== "ok" || truth.optimum === null) return rec(withoutTruth(truth));
     return withStopFlag(async (flag) => {
       try {
-        const a = await pool.run<SpectralAnswer>({ type: "spectral", ctx: ctxOf(inst), b: cell.runLength ?? 0, eta: spec.spectral.eta, optimum: truth.optimum as number, stop: flag });
+        const a = await pool.run<PredictAnswer>({ type: "predict", ctx: ctxOf(inst), predictor: cell.method, param: cell.runLength ?? 0, options: methodOptions, optimum: truth.optimum as number, stop: flag });
         return rec({ status: "ok", row: a.row, wall_ns: a.wall_ns });
       } catch (e) {
         return rec({ message: messageOf(e) });
@@ -248,7 +146,7 @@ export async function runStudy(spec: StudySpec, options: RunOptions): Promise<Ru
     const todo = cells.filter((c) => !done.has(c.key));
     state.resumed += cells.length - todo.length;
     if (todo.length === 0) return;
-    if (state.stopping) {
+    if (stop.stopping) {
       state.skipped += todo.length;
       return;
     }
@@ -260,7 +158,7 @@ export async function runStudy(spec: StudySpec, options: RunOptions): Promise<Ru
     const rest = todo.filter((c) => c.kind !== "truth");
     await Promise.all(
       rest.map(async (cell) => {
-        if (state.stopping) {
+        if (stop.stopping) {
           state.skipped++;
           return;
         }
@@ -275,25 +173,21 @@ export async function runStudy(spec: StudySpec, options: RunOptions): Promise<Ru
   try {
     for (const n of sizes) {
       const ofSize = mine.filter((i) => i.n === n);
-      if (!state.stopping && Date.now() < state.deadline) await Promise.all(ofSize.map(runInstance));
+      if (!stop.stopping && Date.now() < stop.deadline) await Promise.all(ofSize.map(runInstance));
       else for (const inst of ofSize) await runInstance(inst);
       const complete = ofSize.every((inst) => cellsOfInstance(spec, inst).every((c) => done.has(c.key) && done.get(c.key)?.status !== "censored"));
       (complete ? completeSizes : incompleteSizes).push(n);
       options.progress.sizeDone(n, complete);
     }
   } finally {
-    if (budgetTimer) clearTimeout(budgetTimer);
-    if (limitTimer) clearInterval(limitTimer);
-    if (graceTimer) clearTimeout(graceTimer);
-    process.off("SIGINT", onSignal);
-    process.off("SIGTERM", onSignal);
+    stop.dispose();
     journal.close();
     options.progress.stop();
     await pool.close();
   }
   return {
     cellsTotal, cellsDone: state.done, cellsResumed: state.resumed, errors: state.errors, censored: state.censored,
-    skipped: state.skipped, completeSizes, incompleteSizes, interrupted: state.signal, tornJournalLine: previous.tornLine,
+    skipped: state.skipped, completeSizes, incompleteSizes, interrupted: stop.signal, tornJournalLine: previous.tornLine,
   };
 }
 

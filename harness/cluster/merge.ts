@@ -5,12 +5,11 @@
  */
 import { existsSync, readFileSync } from "node:fs";
 import { join } from "node:path";
-import { InputError } from "./errors.js";
-import { readJournal, type JournalRecord } from "./journal.js";
-import { readStudyFolder } from "./resolve.js";
-import { type StudySpec, cellsOfInstance, instancesOf } from "./study.js";
-import { writeFileAtomic } from "./files.js";
-import { OUT_FILES } from "./run.js";
+import { InputError } from "../errors.js";
+import { readJournal, type JournalRecord } from "../engine/journal.js";
+import { type StudySpec, cellsOfInstance, instancesOf } from "../engine/study.js";
+import { writeFileAtomic } from "../engine/files.js";
+import { OUT_FILES, readStudyFolder } from "../engine/output-folder.js";
 
 /** What a merge produced. */
 export interface MergeResult {

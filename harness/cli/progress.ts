@@ -4,17 +4,9 @@
  */
 import cliProgress from "cli-progress";
 
-/** What the run loop tells about its progress. */
-export interface Progress {
-  start(total: number, alreadyDone: number): void;
-  tick(key: string): void;
-  sizeDone(n: number, complete: boolean): void;
-  note(line: string): void;
-  stop(): void;
-}
+import type { Progress } from "../engine/progress.js";
 
-/** A progress reporter that says nothing. */
-export const silentProgress: Progress = { start() {}, tick() {}, sizeDone() {}, note() {}, stop() {} };
+export { silentProgress, type Progress } from "../engine/progress.js";
 
 /** Chooses the bar on a TTY and log lines otherwise; messages go to stderr so stdout stays for data. */
 export function consoleProgress(stream: NodeJS.WriteStream = process.stderr): Progress {

@@ -3,7 +3,7 @@
  * shard K of N), then merge the shard folders in a job that waits for every task to succeed.
  * Pure: builds strings and checks values; the `speedbound slurm` command writes the files.
  */
-import { InputError } from "./errors.js";
+import { InputError } from "../errors.js";
 
 /** What `speedbound slurm` knows when it writes the scripts. */
 export interface SlurmOptions {
