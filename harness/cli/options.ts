@@ -77,7 +77,7 @@ export const OPTIONS = [
   { name: "couplings", type: "string", group: "family", default: "gauss", choices: ["gauss", "pm1"], commands: INSTANCE, description: "sk: J ~ N(0,1/n) or ±1/√n" },
   { name: "p", type: "integer", group: "family", default: 3, min: 2, max: 8, commands: INSTANCE, description: "pspin: interaction order" },
   { name: "degree", type: "integer", group: "family", default: 3, min: 1, max: 64, commands: INSTANCE, description: "maxcut: vertex degree d of the random regular graph" },
-  { name: "solvers", type: "list", group: "solvers", default: "exhaustive,walk,anneal", choices: SOLVER_NAMES, commands: STUDY, description: "classical solvers to time (exhaustive always runs: it is the ground truth)" },
+  { name: "solvers", type: "list", group: "solvers", default: "exhaustive,walk,anneal", choices: SOLVER_NAMES, commands: STUDY, description: "classical solvers to time (the exact ground truth always runs: exhaustive, or count for CNF above n = 30)" },
   { name: "trials", type: "integer", group: "solvers", default: 200, min: 1, max: 1e9, commands: STUDY, description: "randomised solvers: independent trials per instance and run length" },
   { name: "walk-flips", type: "string", group: "solvers", default: "3n", commands: STUDY, description: "walk: flips per trial before a restart, as K·n (e.g. 3n, Schöning's choice)" },
   { name: "anneal-sweeps", aliases: ["sweeps"], type: "list", group: "solvers", default: "10,30,100,300", unit: "sweeps", commands: STUDY, description: "anneal: sweeps per trial (run lengths), one run per value" },

@@ -33,7 +33,8 @@ export async function computeGroundTruth(pool: WorkerPool, problem: Problem, ctx
 /**
  * True when the ground truth of `problem` is one part on `workers` workers (small enumerations, counting):
  * then {@link computeGroundTruthHere} is faster than starting a pool, whose threads each load the registries
- * (`solve` of a counted 100-variable formula: 0.2–0.3 s less CPU, with the lazy command loading of cli/commands/index.ts).
+ * (`solve` of a counted 100-variable formula: 0.2–0.3 s less CPU, with the lazy command loading of
+ * cli/commands/index.ts).
  */
 export function groundTruthIsOnePart(problem: Problem, workers: number): boolean {
   return groundTruthSolver(problem.kind, false, sizeOf(problem)).plan(problem, workers).length === 1;

@@ -2,7 +2,8 @@
  * The commands of the tool, one file each (cli.ts dispatches to them). Each command's module is loaded only
  * when that command runs: the report modules (vega, vega-lite, tables, summaries) cost a few hundred ms of
  * start-up, more than `solve` needs to count a 100-variable formula, and only run, demo, report, merge and
- * compare use them. Measured (issue 16): `solve` of a counted 100-variable formula took 0.50–0.71 s of user CPU before, 0.27–0.38 s after this and the in-thread ground truth (engine/ground-truth.ts).
+ * compare use them. Measured (issue 16): `solve` of a counted 100-variable formula took 0.50–0.71 s of user
+ * CPU before, 0.27–0.38 s after this and the in-thread ground truth (engine/ground-truth.ts).
  */
 import type { Args } from "./shared.js";
 
