@@ -57,6 +57,7 @@ export async function runStudy(spec: StudySpec, options: RunOptions): Promise<Ru
   const record = (r: JournalRecord): void => {
     journal.append(r);
     done.set(r.key, r);
+    killAtTestPoint(done.size);
     state.done++;
     if (r.status === "error") state.errors++;
     if (r.status === "censored") state.censored++;
@@ -205,4 +206,15 @@ function withoutTruth(truth: TruthRecord): { status: "censored" | "error"; messa
 export function messageOf(e: unknown): string {
   const text = e instanceof Error ? e.message : String(e);
   return text.split("\n")[0];
+}
+
+/**
+ * Test hook: SPEEDBOUND_TEST_KILL_AT=K kills this process with SIGKILL as soon as the journal holds K records,
+ * so the resume test kills at exact points. (Killing from outside once the test sees K lines raced the study:
+ * the last 8 cells of that test take 20–55 ms, and a test process descheduled that long let the study finish
+ * before the kill.) Unset in normal use.
+ */
+function killAtTestPoint(records: number): void {
+  const at = process.env.SPEEDBOUND_TEST_KILL_AT;
+  if (at !== undefined && records === Number(at)) process.kill(process.pid, "SIGKILL");
 }

@@ -20,8 +20,8 @@ import { ksatFamily } from "../../harness/families/ksat.js";
 import { parseDimacs, writeDimacs } from "../../harness/formats/dimacs.js";
 import { countModels } from "../../solvers/count-cnf.js";
 
-// This module runs compiled, from dist/test/bench/: the CLI is dist/harness/cli.js, the repository two levels up.
-const CLI = fileURLToPath(new URL("../../harness/cli.js", import.meta.url));
+// This module runs compiled, from dist/test/bench/: the CLI is dist/harness/cli/cli.js, the repository two levels up.
+const CLI = fileURLToPath(new URL("../../harness/cli/cli.js", import.meta.url));
 const REPO = resolve(fileURLToPath(new URL("../../..", import.meta.url)));
 const SATLIB_DIR = resolve(REPO, "../shared/datasets/satlib");
 const HAVE_SATLIB = existsSync(SATLIB_DIR);
