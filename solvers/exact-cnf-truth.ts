@@ -46,7 +46,7 @@ export function cnfModelCount(cnf: Cnf): bigint {
  * Optimum and degeneracy of a CNF formula by counting: method "count" when satisfiable (degeneracy = model
  * count), "maxsat" otherwise (also while unproved, when stopped). `degeneracy` is the nearest double (exact
  * below 2^53), `degeneracyExact` the exact decimal; `assignments` = 2^n (all covered, implicitly);
- * `nodes` = decisions made.
+ * `evaluated` and `nodes` = decisions made. No `leastPart`: the fixed-cost floor is not measured (null) for it.
  */
 export function cnfTruthByCounting(cnf: Cnf, stop: StopFlag): ExactResult {
   const r = maxsatExact(cnf, stop);
@@ -54,6 +54,8 @@ export function cnfTruthByCounting(cnf: Cnf, stop: StopFlag): ExactResult {
     optimum: r.complete ? r.optimum : Infinity,
     degeneracy: r.complete ? Number(r.degeneracy) : 0,
     assignments: r.complete ? 2 ** cnf.variables : 0,
+    // The work really done, in this method's unit: decisions (runs.csv `work` of a count/maxsat row).
+    evaluated: r.nodes + r.counterNodes,
     complete: r.complete,
     method: r.complete && r.optimum === 0 ? "count" : "maxsat",
     degeneracyExact: r.complete ? r.degeneracy.toString() : "",

@@ -81,13 +81,14 @@ export async function runStudy(spec: StudySpec, options: RunOptions): Promise<Ru
         const problem = materialise(ctxOf(inst)).problem;
         const { merged, answers } = await computeGroundTruth(pool, problem, ctxOf(inst), options.workers, flag);
         const wall = answers.reduce((s, a) => s + a.wall_ns, 0);
+        const floor = answers.every((a) => a.floor_ns !== null) ? answers.reduce((s, a) => s + (a.floor_ns ?? 0), 0) : null;
         const status = merged.complete ? "ok" : "censored";
         return {
           ...base, status, wall_ns: wall, message: status === "ok" ? "" : "stopped by a time limit",
           seed: answers[0].seed, meta: answers[0].meta,
           optimum: merged.complete ? merged.optimum : null,
           degeneracy: merged.complete ? merged.degeneracy : null,
-          assignments: merged.assignments, mean: answers[0].mean,
+          assignments: merged.assignments, evaluated: merged.evaluated, floor_ns: floor, mean: answers[0].mean,
           // issue 16: which exact method answered, and its exact count.
           truth_method: merged.method ?? "enumeration",
           ...(merged.complete ? { degeneracy_exact: merged.degeneracyExact ?? String(merged.degeneracy) } : {}),
@@ -120,7 +121,7 @@ export async function runStudy(spec: StudySpec, options: RunOptions): Promise<Ru
           const r = a.result;
           return rec({
             status: r.censored ? "censored" : "ok", wall_ns: a.wall_ns, trials: r.trials, successes: r.successes, work: r.work,
-            best: Number.isFinite(r.best) ? r.best : null, ...(r.extra as Partial<RunRecord> | undefined),
+            best: Number.isFinite(r.best) ? r.best : null, ...(r.extra as Partial<RunRecord> | undefined), floor_ns: a.floor_ns,
             message: r.censored ? `stopped by a time limit after ${r.trials} trials` : "",
           });
         } catch (e) {

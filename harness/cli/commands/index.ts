@@ -18,7 +18,7 @@ export const run = lazy<[Args, ReadonlyArray<string>]>(async () => (await import
 export const demo = lazy<[]>(async () => (await import("./demo.js")).demo);
 export const solve = lazy<[Args]>(async () => (await import("./solve.js")).solve);
 export const instance = lazy<[Args]>(async () => (await import("./instance.js")).instance);
-export const report = lazy<[Args]>(async () => (await import("./report.js")).report);
+export const report = lazy<[Args, ReadonlyArray<string>?]>(async () => (await import("./report.js")).report);
 export const spectral = lazy<[Args]>(async () => (await import("./spectral.js")).spectral);
 export const cost = lazy<[Args]>(async () => (await import("./cost.js")).cost);
 export const merge = lazy<[Args, ReadonlyArray<string>]>(async () => (await import("./merge.js")).merge);
