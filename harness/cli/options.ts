@@ -82,7 +82,7 @@ export const OPTIONS = [
   {
     name: "solvers", type: "list", group: "solvers", choices: SOLVER_NAMES, commands: STUDY,
     // No single default: each solver's registry entry says on which model kinds it runs by default.
-    description: `classical solvers to time (exhaustive always runs: it is the ground truth); default per family kind: k-SAT/CNF ${defaultSolvers("cnf").join(",")}, spin families ${defaultSolvers("ising").join(",")}`,
+    description: `classical solvers to time (the exact ground truth always runs: exhaustive, or count for CNF above n = 30); default per family kind: k-SAT/CNF ${defaultSolvers("cnf").join(",")}, spin families ${defaultSolvers("ising").join(",")}`,
   },
   { name: "trials", type: "integer", group: "solvers", default: 200, min: 1, max: 1e9, commands: STUDY, description: "randomised solvers: independent trials per instance and run length" },
   { name: "walk-flips", type: "string", group: "solvers", default: "3n", commands: STUDY, description: "walk: flips per trial before a restart, as K·n (e.g. 3n, Schöning's choice)" },

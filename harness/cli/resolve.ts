@@ -11,7 +11,7 @@ import { COOLING_INTERNAL, COOLING_LAWS, optionSpec, type OptionSpec } from "./o
 import type { StudySpec } from "../engine/study.js";
 import { sizeOf } from "../model/problem.js";
 import { PREDICTOR_NAMES, predictorNamed } from "../predict/registry.js";
-import { SOLVER_NAMES, defaultSolvers, groundTruthSolver, trialsSolverNamed } from "../../solvers/registry.js";
+import { EXACT_SOLVER_NAMES, SOLVER_NAMES, defaultSolvers, groundTruthSolver, trialsSolverNamed } from "../../solvers/registry.js";
 import { parseExternalOption } from "../engine/external-solver.js";
 
 type Argv = Readonly<Record<string, unknown>>;
@@ -113,10 +113,11 @@ export function checkLimits(family: Family, params: FamilyParams, sizes: Readonl
   }
   const largest = sizes[sizes.length - 1];
   const symmetric = family.flipSymmetric(params);
-  const limit = groundTruthSolver(family.kind, symmetric, largest).maxSize(family.kind, symmetric);
+  const exact = groundTruthSolver(family.kind, symmetric, largest);
+  const limit = exact.maxSize(family.kind, symmetric);
   if (largest > limit) {
     const where = folder ? `--from: a file has n = ${largest}` : `--n: size ${largest}`;
-    throw new InputError(`${where} is beyond the exact-enumeration limit of ${limit} for this family (ground truth needs all 2^n configurations)`);
+    throw new InputError(`${where} is beyond the exact ground-truth limit of ${limit} for this family (the largest n an exact solver accepts: ${exact.name})`);
   }
   for (const name of predictors) {
     const cell = predictorNamed(name).cell;
@@ -152,8 +153,9 @@ export function resolveStudy(argv: Argv): StudySpec {
   const sizes = folder ? [...new Set(files.map((f) => f.n))].sort((a, b) => a - b) : parseSizeRange(String(argv.n ?? spec("n").default));
   const familyParams = fam.resolveParams(paramReader(argv));
   const target = { family, kind: fam.kind };
-  // Without --solvers: the registry's default list for the family's kind (each solver's `defaultFor`).
-  const solvers = listOption(argv, "solvers", SOLVER_NAMES, defaultSolvers(fam.kind).join(",")).filter((s) => s !== groundTruthSolver(fam.kind, false, 0).name);
+  // Without --solvers: the registry's default list for the family's kind (each solver's `defaultFor`); exact
+  // solvers are the ground truth, which always runs.
+  const solvers = listOption(argv, "solvers", SOLVER_NAMES, defaultSolvers(fam.kind).join(",")).filter((s) => !EXACT_SOLVER_NAMES.includes(s));
   for (const name of [...solvers]) {
     const why = trialsSolverNamed(name).appliesTo(target);
     if (why === null) continue;

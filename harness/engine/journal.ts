@@ -36,6 +36,14 @@ export interface TruthRecord extends RecordBase {
   /** Fixed per-cell cost (sum over slices of a one-configuration call), ns; absent in older journals. */
   readonly floor_ns?: number | null;
   readonly mean: number | null;
+  // --- issue 16 (exact counting); absent in journals written before it (read as enumeration) ---
+  /** "enumeration", "count" (model counter) or "maxsat" (branch and bound). */
+  readonly truth_method?: string;
+  /** The degeneracy as an exact decimal (may exceed 2^53, where `degeneracy` is rounded). */
+  readonly degeneracy_exact?: string;
+  /** Decisions made by the counting methods (their work measure). */
+  readonly nodes?: number;
+  // --- end issue 16 ---
 }
 
 /** Trials of a randomised solver at one run length. */

@@ -67,6 +67,7 @@ export async function runStudy(spec: StudySpec, options: RunOptions): Promise<Ru
   const record = (r: JournalRecord): void => {
     journal.append(r);
     done.set(r.key, r);
+    killAtTestPoint(done.size);
     state.done++;
     if (r.status === "error" || r.status === "wrong") state.errors++; // a wrong external answer fails the run too
     if (r.status === "censored") state.censored++;
@@ -97,6 +98,10 @@ export async function runStudy(spec: StudySpec, options: RunOptions): Promise<Ru
           optimum: merged.complete ? merged.optimum : null,
           degeneracy: merged.complete ? merged.degeneracy : null,
           assignments: merged.assignments, evaluated: merged.evaluated, floor_ns: floor, mean: answers[0].mean,
+          // issue 16: which exact method answered, and its exact count.
+          truth_method: merged.method ?? "enumeration",
+          ...(merged.complete ? { degeneracy_exact: merged.degeneracyExact ?? String(merged.degeneracy) } : {}),
+          ...(merged.nodes === undefined ? {} : { nodes: merged.nodes }),
         };
       } catch (e) {
         return { ...base, status: "error", wall_ns: 0, message: messageOf(e), seed: "", meta: {}, optimum: null, degeneracy: null, assignments: 0, mean: null };
@@ -228,4 +233,15 @@ function withoutTruth(truth: TruthRecord): { status: "censored" | "error"; messa
 export function messageOf(e: unknown): string {
   const text = e instanceof Error ? e.message : String(e);
   return text.split("\n")[0];
+}
+
+/**
+ * Test hook: SPEEDBOUND_TEST_KILL_AT=K kills this process with SIGKILL as soon as the journal holds K records,
+ * so the resume test kills at exact points. (Killing from outside once the test sees K lines raced the study:
+ * the last 8 cells of that test take 20–55 ms, and a test process descheduled that long let the study finish
+ * before the kill.) Unset in normal use.
+ */
+function killAtTestPoint(records: number): void {
+  const at = process.env.SPEEDBOUND_TEST_KILL_AT;
+  if (at !== undefined && records === Number(at)) process.kill(process.pid, "SIGKILL");
 }

@@ -3,14 +3,14 @@
  * negated with probability 1/2. Options:
  *  - planted: a hidden uniform assignment is drawn first and clauses it violates are rejected and redrawn
  *    (the "planted" ensemble; the hidden assignment is always a model);
- *  - satisfiable: whole formulas are redrawn until exact enumeration finds a model;
+ *  - satisfiable: whole formulas are redrawn until one has a model (enumeration, or the model counter above n = 30);
  *  - unique: whole formulas are redrawn until exactly one assignment satisfies them.
  * Rejections are counted and written to instances.csv (rejected_draws, rejected_clauses).
  */
 import { InputError } from "../errors.js";
 import type { Cnf } from "../model/cnf.js";
 import { Rng, deriveSeed } from "../random.js";
-import { exhaustiveCnfSlice } from "../../solvers/exhaustive-cnf.js";
+import { cnfModelCount } from "../../solvers/exact-cnf-truth.js";
 import { canonicalParams } from "./params.js";
 import type { FamilyParams, GeneratedFamily, GeneratedInstance } from "./types.js";
 
@@ -130,8 +130,9 @@ export const ksatFamily: GeneratedFamily = {
       const { cnf, rejectedClauses: rc } = drawFormula(rng, n, p);
       rejectedClauses += rc;
       if (exactNeeded) {
-        const truth = exhaustiveCnfSlice(cnf, 0, 0, null);
-        const ok = truth.optimum === 0 && (!p.unique || truth.degeneracy === 1);
+        // issue 16: decided by enumeration up to the switch size, by the model counter beyond.
+        const models = cnfModelCount(cnf);
+        const ok = models > 0n && (!p.unique || models === 1n);
         if (!ok) {
           rejectedDraws++;
           continue;

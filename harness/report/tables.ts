@@ -38,7 +38,9 @@ export function buildTables(spec: StudySpec, records: ReadonlyArray<JournalRecor
     seed: t.seed,
     ...t.meta,
     optimum: t.optimum,
-    degeneracy: t.degeneracy,
+    // issue 16: exact even beyond 2^53 (the decimal digits), and the method that gave it.
+    degeneracy: t.degeneracy !== null && t.degeneracy >= 2 ** 53 && t.degeneracy_exact ? t.degeneracy_exact : t.degeneracy,
+    truth_method: t.truth_method ?? "enumeration",
     satisfiable: t.optimum === null || !isCnf(spec) ? null : t.optimum === 0,
     ...(familyNamed(spec.family).describe?.(t.meta, t.optimum) ?? {}),
     mean_cost: t.mean,
@@ -48,10 +50,11 @@ export function buildTables(spec: StudySpec, records: ReadonlyArray<JournalRecor
   const runs: RunRow[] = [];
   for (const t of truths) {
     runs.push({
-      family: spec.family, n: t.n, instance: t.index, solver: "exhaustive", run_length: null, status: t.status,
-      wall_ns: t.wall_ns, work: t.evaluated ?? t.assignments, floor_ns: t.floor_ns ?? null, trials: null, successes: null, p: null, p_low: null, p_high: null,
+      // issue 16: the counting methods report under their own name, with decisions as their work.
+      family: spec.family, n: t.n, instance: t.index, solver: truthSolver(t), run_length: null, status: t.status,
+      wall_ns: t.wall_ns, work: truthWork(t), floor_ns: t.floor_ns ?? null, trials: null, successes: null, p: null, p_low: null, p_high: null,
       work_per_trial: null, wall_ns_per_trial: null, tts_ns: t.status === "ok" ? t.wall_ns : null, tts_ns_low: null,
-      tts_ns_high: null, tts_work: t.status === "ok" ? (t.evaluated ?? t.assignments) : null, tts_work_low: null, message: t.message,
+      tts_ns_high: null, tts_work: t.status === "ok" ? truthWork(t) : null, tts_work_low: null, message: t.message,
     });
   }
   for (const r of runsRec) runs.push(runRow(spec, r));
@@ -172,3 +175,15 @@ function prediction(base: { family: string; n: number; instance: number }, predi
     ...p,
   };
 }
+
+// --- issue 16 (exact counting) ---
+/** Solver name of a truth cell in runs.csv: "exhaustive" for enumeration, else the counting method. */
+function truthSolver(t: TruthRecord): string {
+  return t.truth_method === "count" || t.truth_method === "maxsat" ? t.truth_method : "exhaustive";
+}
+
+/** Work of a truth cell: configurations evaluated by enumeration, decisions made by the counting methods. */
+function truthWork(t: TruthRecord): number {
+  return t.truth_method === "count" || t.truth_method === "maxsat" ? (t.nodes ?? 0) : (t.evaluated ?? t.assignments);
+}
+// --- end issue 16 ---

@@ -7,7 +7,7 @@ import { resolveStudy } from "../resolve.js";
 import { writeFileAtomic } from "../../engine/files.js";
 import { SLURM_FILES, slurmScripts } from "../../cluster/slurm.js";
 import { type Args } from "./shared.js";
-import { mkdirOrFail } from "./merge.js";
+import { mkdirOrFail } from "./shared.js";
 
 const SLURM_ONLY = ["shards", "cpus-per-task", "time", "partition", "account", "mem-per-cpu", "job-name", "out", "workers", "shard"];
 
