@@ -1,0 +1,26 @@
+/**
+ * The file piscina loads in each worker thread: a CommonJS shim that starts loading the ESM worker (worker.ts)
+ * with `import()` and hands every task to its default export.
+ *
+ * Why a shim: piscina loads its `filename` with `require()` first. On Node ≥ 20.19 `require()` of an ES module
+ * runs the synchronous require(esm) path, and when the pool is destroyed while a worker is still inside it
+ * (a short command such as `solve` ends before the idle second worker has finished loading), the thread's
+ * termination interrupts module instantiation and Node aborts the whole process ("FATAL ERROR:
+ * v8::Module::IsGraphAsync ... must be used on an instantiated module", exit 134). Node's synchronous
+ * instantiate path reads the graph's asynchronicity without checking that instantiation succeeded; the
+ * asynchronous `import()` path checks it. Loading this CommonJS file with `require()` runs no require(esm),
+ * so terminating a worker at any moment is safe. Measured with test/stress/pool-shutdown: 2 aborts in 300
+ * destroy-while-loading cycles with the ESM entry, none with this one (see README, "Reliability").
+ */
+import type { Task } from "./tasks.js";
+
+// Started at once, so loading overlaps the pool's start-up; a task awaits it only the first time.
+const loading = import("./worker.js");
+// A rejected load is reported by the first task; this keeps it from being an unhandled rejection before then.
+loading.catch(() => undefined);
+
+async function handle(task: Task): Promise<unknown> {
+  return (await loading).default(task);
+}
+
+export = handle;
