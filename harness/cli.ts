@@ -8,6 +8,11 @@ import { hideBin } from "yargs/helpers";
 import { EXIT, InputError } from "./errors.js";
 import { STUDY_OPTIONS, type OptionSpec } from "./options.js";
 import * as commands from "./commands.js";
+import { checkCommandLine, parseFailureLine } from "./argv-guard.js";
+import { writeFailure } from "./fs-guard.js";
+
+/** The commands, for the unknown-command message (keep in step with the command tree below). */
+const COMMAND_NAMES = ["run", "demo", "solve", "instance", "report", "spectral", "merge", "compare", "slurm", "cost"] as const;
 
 function yargsType(o: OptionSpec): Options["type"] {
   if (o.type === "boolean") return "boolean";
@@ -43,6 +48,7 @@ const STUDY_GROUPS = ["study", "family", "solvers", "predictors", "cost model", 
 
 async function main(): Promise<number> {
   const args = hideBin(process.argv);
+  checkCommandLine(args, COMMAND_NAMES);
   let code: number = EXIT.ok;
   const set = (c: number): void => {
     code = c;
@@ -61,7 +67,7 @@ async function main(): Promise<number> {
     .command(
       "instance",
       "print one generated instance (DIMACS CNF for ksat, coupling list for spin families) to stdout",
-      (y) => withOptions(y, ["study", "family"], ["out", "instances"]).option("index", { type: "string", default: "0", describe: "instance index (0-based)" }),
+      (y) => withOptions(y, ["study", "family"], ["out", "instances"]).option("index", { type: "string", default: "0", describe: "instance index (0-based)" }).demandOption("n", "one size, e.g. --n 20"),
       async (a) => set(await commands.instance(a)),
     )
     .command(
@@ -111,8 +117,8 @@ async function main(): Promise<number> {
     .strict()
     .recommendCommands()
     .fail((msg, err) => {
-      if (err) throw err;
-      throw new InputError(msg.split("\n")[0]);
+      if (err && err.name !== "YError") throw err;
+      throw new InputError(parseFailureLine(err?.message ?? msg ?? ""));
     })
     .help()
     .wrap(Math.min(120, process.stdout.columns ?? 100))
@@ -127,7 +133,14 @@ main().then(
   (e: unknown) => {
     if (e instanceof InputError) {
       process.stderr.write(`speedbound: ${e.message}\n`);
-      process.exitCode = EXIT.badInput;
+      process.exitCode = (e as InputError & { exitCode?: number }).exitCode ?? EXIT.badInput;
+      return;
+    }
+    // A write that failed where no guard stood (read-only folder, full disk): still one line, never a stack.
+    const failed = writeFailure(e, "speedbound");
+    if (failed) {
+      process.stderr.write(`speedbound: ${failed.message}\n`);
+      process.exitCode = (failed as InputError & { exitCode?: number }).exitCode ?? EXIT.badInput;
       return;
     }
     process.stderr.write(`speedbound: internal error: ${e instanceof Error ? (e.stack ?? e.message) : String(e)}\n`);

@@ -2,7 +2,7 @@
  * What each CLI command does, on typed inputs. cli.ts parses; this file runs the harness and prints.
  */
 import { availableParallelism } from "node:os";
-import { chmodSync, mkdirSync, readFileSync } from "node:fs";
+import { chmodSync, readFileSync } from "node:fs";
 import { fileURLToPath } from "node:url";
 import { join, resolve } from "node:path";
 import { EXIT, InputError } from "./errors.js";
@@ -28,6 +28,10 @@ import { costModelRows } from "./predict/cost-table.js";
 import { mergeShards, writeMerged } from "./merge.js";
 import { DEFAULT_SPEED_TOLERANCE, compareFolders } from "./compare.js";
 import { SLURM_FILES, slurmScripts } from "./slurm.js";
+import { assertWritableFolder, ensureWritableFolder, guardWrite } from "./fs-guard.js";
+import { lockFolder } from "./folder-lock.js";
+import { resolvedOptions } from "./resolved-options.js";
+import { STREAM_SCHEME } from "./build-info.js";
 
 type Args = Readonly<Record<string, unknown>>;
 
@@ -47,7 +51,8 @@ export async function run(argv: Args, rawArgs: ReadonlyArray<string>): Promise<n
   const summary = await runStudy(spec, { out, workers, budgetMs, cellLimitMs, shard, progress: consoleProgress(), graceMs: 10_000 });
   if (summary.tornJournalLine) process.stderr.write(`speedbound: warning: the journal's last line was torn (a killed run) and was dropped\n`);
   const { paper } = await writeOutputs(spec, out);
-  writeFileAtomic(join(out, OUT_FILES.manifest), JSON.stringify(buildManifest({ argv: rawArgs, spec, workers, shard, started, ended: new Date(), summary }), null, 2) + "\n");
+  const extra = { resolved_options: resolvedOptions(argv, { out, workers, budgetMs, cellLimitMs, shard }), stream_scheme: STREAM_SCHEME };
+  writeFileAtomic(join(out, OUT_FILES.manifest), JSON.stringify(buildManifest({ argv: rawArgs, spec, workers, shard, started, ended: new Date(), summary, extra }), null, 2) + "\n");
   process.stdout.write(formatComparison(paper) + "\n");
   process.stdout.write(summaryLine(summary, out) + "\n");
   if (summary.interrupted === "SIGINT") return EXIT.interrupted;
@@ -148,9 +153,11 @@ export async function instance(argv: Args): Promise<number> {
 export async function report(argv: Args): Promise<number> {
   const dir = resolve(String(argv.dir));
   const { spec } = readStudyFolder(dir);
+  assertWritableFolder(dir, "report");
+  const lock = lockFolder(dir, "report", "report"); // not while a run writes the same folder
   const fitFrom = argv["fit-from"] === undefined ? spec.report.fitFrom : numberOption(argv, "fit-from");
   const resamples = argv.resamples === undefined ? spec.report.resamples : (numberOption(argv, "resamples") as number);
-  const { paper } = await writeOutputs({ ...spec, report: { fitFrom, resamples } }, dir);
+  const { paper } = await writeOutputs({ ...spec, report: { fitFrom, resamples } }, dir).finally(() => lock.release());
   process.stdout.write(formatComparison(paper) + "\n");
   process.stdout.write(`speedbound: tables rebuilt in ${dir}\n`);
   return EXIT.ok;
@@ -187,7 +194,7 @@ export async function merge(argv: Args, rawArgs: ReadonlyArray<string>): Promise
   const out = resolve(String(argv.out));
   const dirs = ((argv.dirs as string[] | undefined) ?? []).map((d) => resolve(d));
   const merged = mergeShards(dirs);
-  mkdirOrFail(out);
+  mkdirOrFail(out, "merge");
   writeMerged(out, merged);
   const started = new Date();
   const { paper } = await writeOutputs(merged.spec, out);
@@ -200,12 +207,8 @@ export async function merge(argv: Args, rawArgs: ReadonlyArray<string>): Promise
   return EXIT.ok;
 }
 
-function mkdirOrFail(dir: string): void {
-  try {
-    mkdirSync(dir, { recursive: true });
-  } catch (e) {
-    throw new InputError(`${dir}: cannot create (${(e as NodeJS.ErrnoException).code ?? String(e)})`);
-  }
+function mkdirOrFail(dir: string, label: string): void {
+  ensureWritableFolder(dir, label); // one-level-at-a-time mkdir: never spins (see fs-guard.ts)
 }
 
 /** `speedbound compare OLD NEW`: exit 1 on a regression. */
@@ -242,10 +245,10 @@ export async function slurm(argv: Args, rawArgs: ReadonlyArray<string>): Promise
     workDir: process.cwd(),
   });
   const dir = join(out, "slurm");
-  mkdirOrFail(dir);
+  mkdirOrFail(dir, "--out");
   for (const [name, file] of Object.entries(SLURM_FILES) as Array<[keyof typeof SLURM_FILES, string]>) {
     writeFileAtomic(join(dir, file), scripts[name]);
-    chmodSync(join(dir, file), 0o755);
+    guardWrite("slurm", join(dir, file), () => chmodSync(join(dir, file), 0o755));
   }
   process.stdout.write(`speedbound: wrote ${Object.values(SLURM_FILES).map((f) => join(dir, f)).join(", ")}\n`);
   process.stdout.write(`speedbound: submit with: bash ${join(dir, SLURM_FILES.submit)}\n`);

@@ -4,7 +4,7 @@
  * sizes. Every finished cell goes to the journal at once; tables are rebuilt from the journal at the end, so a
  * killed run resumes where it stopped and ends with the same tables.
  */
-import { existsSync, mkdirSync, readFileSync } from "node:fs";
+import { existsSync, readFileSync } from "node:fs";
 import { join } from "node:path";
 import { InputError } from "./errors.js";
 import type { InstanceContext } from "./families/registry.js";
@@ -17,6 +17,9 @@ import { writeFileAtomic } from "./files.js";
 import { mergeExact, planSlices } from "../solvers/exhaustive.js";
 import { materialise } from "./families/registry.js";
 import { costTolerance } from "./model/problem.js";
+import { ensureWritableFolder } from "./fs-guard.js";
+import { lockFolder } from "./folder-lock.js";
+import { assertResumable, buildStamp, type BuildStamp } from "./build-info.js";
 
 /** How a run is carried out (not part of the study's identity). */
 export interface RunOptions {
@@ -58,30 +61,36 @@ export const OUT_FILES = { spec: "spec.json", journal: "journal.jsonl", manifest
  * (compared on the resolved spec, not the command line), so that a rerun resumes instead of mixing studies.
  */
 export function prepareOutput(spec: StudySpec, out: string, shard: RunOptions["shard"]): void {
-  try {
-    mkdirSync(out, { recursive: true });
-  } catch (e) {
-    throw new InputError(`--out: cannot create '${out}' (${(e as NodeJS.ErrnoException).code ?? String(e)})`);
-  }
+  ensureWritableFolder(out, "--out");
   const specPath = join(out, OUT_FILES.spec);
-  const identity = JSON.stringify({ spec, shard }, null, 2) + "\n";
   if (existsSync(specPath)) {
-    const previous = readFileSync(specPath, "utf8");
-    if (previous !== identity) {
+    let previous: { spec?: unknown; shard?: unknown; build?: Partial<BuildStamp> };
+    try {
+      previous = JSON.parse(readFileSync(specPath, "utf8")) as typeof previous;
+    } catch {
+      throw new InputError(`${specPath}:1: spec.json does not parse; choose another folder or remove it`);
+    }
+    if (JSON.stringify({ spec: previous.spec, shard: previous.shard }) !== JSON.stringify({ spec, shard })) {
       throw new InputError(`--out: '${out}' holds a different study (see its ${OUT_FILES.spec}); choose another folder or remove it`);
     }
+    assertResumable(out, previous.build); // same study, but drawn from this build's streams?
     return;
   }
-  try {
-    writeFileAtomic(specPath, identity);
-  } catch (e) {
-    throw new InputError(`--out: cannot write in '${out}' (${(e as NodeJS.ErrnoException).code ?? String(e)})`);
-  }
+  writeFileAtomic(specPath, JSON.stringify({ spec, shard, build: buildStamp() }, null, 2) + "\n");
 }
 
 /** Runs (or resumes) a study. Resolves when every cell is journalled, skipped by the budget, or interrupted. */
 export async function runStudy(spec: StudySpec, options: RunOptions): Promise<RunSummary> {
   prepareOutput(spec, options.out, options.shard);
+  const lock = lockFolder(options.out, "--out", "run"); // one writer per folder: no interleaved journal
+  try {
+    return await runLocked(spec, options);
+  } finally {
+    lock.release();
+  }
+}
+
+async function runLocked(spec: StudySpec, options: RunOptions): Promise<RunSummary> {
   const journalPath = join(options.out, OUT_FILES.journal);
   const previous = readJournal(journalPath, true);
   const done = new Map<string, JournalRecord>();
@@ -126,8 +135,18 @@ export async function runStudy(spec: StudySpec, options: RunOptions): Promise<Ru
   process.on("SIGTERM", onSignal);
 
   const pool = new WorkerPool(options.workers);
+  let storageFailure: unknown = null;
   const record = (r: JournalRecord): void => {
-    journal.append(r);
+    if (storageFailure !== null) return;
+    try {
+      journal.append(r);
+    } catch (e) {
+      // Disk full (or the like): keep what was acknowledged, start nothing new, stop running cells, report once.
+      storageFailure = e;
+      state.stopping = true;
+      stopAll();
+      return;
+    }
     done.set(r.key, r);
     state.done++;
     if (r.status === "error") state.errors++;
@@ -287,6 +306,7 @@ export async function runStudy(spec: StudySpec, options: RunOptions): Promise<Ru
     options.progress.stop();
     await pool.close();
   }
+  if (storageFailure !== null) throw storageFailure;
   return {
     cellsTotal, cellsDone: state.done, cellsResumed: state.resumed, errors: state.errors, censored: state.censored,
     skipped: state.skipped, completeSizes, incompleteSizes, interrupted: state.signal, tornJournalLine: previous.tornLine,
