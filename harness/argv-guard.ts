@@ -54,3 +54,17 @@ export function parseFailureLine(text: string): string {
   if (unknown) return `unknown option ${unknown[1].split(", ").map((a) => (a.startsWith("-") ? a : `--${a}`)).join(", ")} (see --help)`;
   return line;
 }
+
+/**
+ * A note when `--n FROM:TO:STEP` does not reach TO (e.g. `10:11:3` runs one size, 10): the sizes that run are
+ * said out loud, or null when the range is taken as written.
+ */
+export function sizeRangeNote(given: unknown, sizes: ReadonlyArray<number>): string | null {
+  if (given === undefined || sizes.length === 0) return null;
+  const parts = String(given).split(":").map(Number);
+  if (parts.length < 2) return null;
+  const to = parts[1];
+  const last = sizes[sizes.length - 1];
+  if (last === to) return null;
+  return `--n ${String(given)} runs ${sizes.length === 1 ? "one size" : `${sizes.length} sizes`} (${sizes.join(", ")}): the step does not reach ${to}`;
+}

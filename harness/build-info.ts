@@ -46,3 +46,9 @@ export function assertResumable(folder: string, recorded: Partial<BuildStamp> | 
     `--out: '${folder}' was begun by ${describeBuild(recorded)}; this is ${describeBuild(current)}, whose random streams differ: resuming would mix them; use another folder or the build that began it`,
   );
 }
+
+/** For `compare`: a sentence when two runs come from builds with different random streams, else null. */
+export function streamsNote(older: Partial<BuildStamp> | null | undefined, newer: Partial<BuildStamp> | null | undefined): string | null {
+  if (sameStreams(older, newer)) return null;
+  return `the runs come from builds with different random streams (old: ${describeBuild(older)}; new: ${describeBuild(newer)}): same seeds, different draws, so solver results differ cell by cell; compare their distributions only`;
+}

@@ -7,7 +7,8 @@ import { fileURLToPath } from "node:url";
 import { join, resolve } from "node:path";
 import { EXIT, InputError } from "./errors.js";
 import { OUT_FILES, runStudy, type RunSummary } from "./run.js";
-import { numberOption, parseDuration, parseShard, readStudyFolder, resolveFamilyParams, resolveStudy, parseSizeRange } from "./resolve.js";
+import { numberOption, parseDuration, parseShard, readStudyFolder, resolveBValues, resolveFamilyParams, resolveStudy, parseSizeRange } from "./resolve.js";
+import { sizeRangeNote } from "./argv-guard.js";
 import { consoleProgress } from "./progress.js";
 import { writeOutputs } from "./report/outputs.js";
 import { buildManifest } from "./manifest.js";
@@ -31,7 +32,7 @@ import { SLURM_FILES, slurmScripts } from "./slurm.js";
 import { assertWritableFolder, ensureWritableFolder, guardWrite } from "./fs-guard.js";
 import { lockFolder } from "./folder-lock.js";
 import { resolvedOptions } from "./resolved-options.js";
-import { STREAM_SCHEME } from "./build-info.js";
+import { STREAM_SCHEME, streamsNote } from "./build-info.js";
 
 type Args = Readonly<Record<string, unknown>>;
 
@@ -42,6 +43,8 @@ function workersOf(argv: Args): number {
 /** `speedbound run`: resolve, run (or resume), write tables and manifest, print the comparison. */
 export async function run(argv: Args, rawArgs: ReadonlyArray<string>): Promise<number> {
   const spec = resolveStudy(argv);
+  const note = sizeRangeNote(argv.n, spec.sizes);
+  if (note) process.stderr.write(`speedbound: note: ${note}\n`);
   const out = resolve(String(argv.out ?? "results/latest"));
   const workers = workersOf(argv);
   const shard = argv.shard === undefined ? null : parseShard(String(argv.shard));
@@ -168,12 +171,17 @@ export async function spectral(argv: Args): Promise<number> {
   const file = String(argv.file);
   const problem = readProblemFile(file);
   const eta = numberOption(argv, "eta") as number;
-  const b = numberOption(argv, "b") as number;
-  const start = process.hrtime.bigint();
-  const row = computeSpectral(problem, null, b, eta);
-  const result = { file, n: sizeOf(problem), ...row, wall_ns: Number(process.hrtime.bigint() - start) };
-  if (argv.json) process.stdout.write(JSON.stringify(result) + "\n");
-  else for (const [k, v] of Object.entries(result)) process.stdout.write(`${k.padEnd(22)} ${String(v)}\n`);
+  const bValues = resolveBValues(argv); // --b-scan FROM:TO:STEP gives one result per b (JSON: one object a line)
+  for (const [i, b] of bValues.entries()) {
+    const start = process.hrtime.bigint();
+    const row = computeSpectral(problem, null, b, eta);
+    const result = { file, n: sizeOf(problem), ...row, wall_ns: Number(process.hrtime.bigint() - start) };
+    if (argv.json) process.stdout.write(JSON.stringify(result) + "\n");
+    else {
+      if (i > 0) process.stdout.write("\n");
+      for (const [k, v] of Object.entries(result)) process.stdout.write(`${k.padEnd(22)} ${String(v)}\n`);
+    }
+  }
   return EXIT.ok;
 }
 
@@ -216,6 +224,8 @@ export async function compare(argv: Args): Promise<number> {
   const tolerance = argv.tolerance === undefined ? DEFAULT_SPEED_TOLERANCE : Number(argv.tolerance);
   if (!(tolerance > 0) || !Number.isFinite(tolerance)) throw new InputError(`--tolerance: '${String(argv.tolerance)}' is not a positive number`);
   const findings = compareFolders(resolve(String(argv.old)), resolve(String(argv.new)), tolerance);
+  const streams = streamsNote(readStudyFolder(resolve(String(argv.old))).build, readStudyFolder(resolve(String(argv.new))).build);
+  if (streams) process.stdout.write(`note        streams       ${streams}\n`);
   if (findings.length === 0) process.stdout.write("speedbound compare: no change beyond intervals and tolerance\n");
   for (const f of findings) process.stdout.write(`${f.regression ? "REGRESSION" : "change    "}  ${f.kind.padEnd(12)}  ${f.what}: ${f.detail}\n`);
   return findings.some((f) => f.regression) ? EXIT.failures : EXIT.ok;

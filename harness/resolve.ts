@@ -13,6 +13,7 @@ import { sizeOf } from "./model/problem.js";
 import { CNF_EXACT_MAX_VARIABLES } from "../solvers/exhaustive-cnf.js";
 import { SPIN_EXACT_MAX } from "../solvers/exhaustive-spin.js";
 import { lanczosMaxN } from "./predict/lanczos.js";
+import type { BuildStamp } from "./build-info.js";
 
 type Argv = Readonly<Record<string, unknown>>;
 
@@ -144,7 +145,7 @@ export function resolveStudy(argv: Argv): StudySpec {
   const limit = isCnf ? CNF_EXACT_MAX_VARIABLES : SPIN_EXACT_MAX;
   const largest = sizes[sizes.length - 1];
   if (largest > limit) {
-    const where = folder ? `--from: a file has n = ${largest}` : `--n: size ${largest}`;
+    const where = folder ? `--from: ${files.find((f) => f.n === largest)?.file}: n = ${largest}` : `--n: size ${largest}`;
     throw new InputError(`${where} is beyond the exact-enumeration limit of ${limit} for this family (ground truth needs all 2^n configurations)`);
   }
   if (family === "ksat" && sizes[0] < (familyParams.k as number)) {
@@ -197,15 +198,7 @@ export function resolveStudy(argv: Argv): StudySpec {
     }
     beta = [parts[0], parts[1]];
   }
-  let bValues = [numberOption(argv, "b") as number];
-  if (argv["b-scan"] !== undefined) {
-    const parts = String(argv["b-scan"]).split(":").map(Number);
-    if (parts.length !== 3 || !parts.every(Number.isFinite) || parts[2] <= 0 || parts[1] < parts[0] || parts[0] < 0) {
-      throw new InputError(`--b-scan: '${String(argv["b-scan"])}' is not FROM:TO:STEP with 0 ≤ FROM ≤ TO and STEP > 0`);
-    }
-    bValues = [];
-    for (let i = 0; parts[0] + i * parts[2] <= parts[1] + 1e-12; i++) bValues.push(Number((parts[0] + i * parts[2]).toPrecision(12)));
-  }
+  const bValues = resolveBValues(argv);
   const study: StudySpec = {
     family,
     familyParams,
@@ -225,6 +218,22 @@ export function resolveStudy(argv: Argv): StudySpec {
     report: { fitFrom: optionalNumber(argv, "fit-from"), resamples: numberOption(argv, "resamples") as number },
   };
   return deepFreeze(study);
+}
+
+/** The spectral filter strengths: `--b-scan FROM:TO:STEP` when given (it overrides `--b`), else `--b`. */
+export function resolveBValues(argv: Argv): number[] {
+  if (argv["b-scan"] === undefined) return [numberOption(argv, "b") as number];
+  const text = String(argv["b-scan"]);
+  const parts = text.split(":").map((p) => (p.trim() === "" ? NaN : Number(p)));
+  if (parts.length !== 3 || !parts.every(Number.isFinite) || parts[2] <= 0 || parts[1] < parts[0] || parts[0] < 0) {
+    throw new InputError(`--b-scan: '${text}' is not FROM:TO:STEP with 0 ≤ FROM ≤ TO and STEP > 0`);
+  }
+  const values: number[] = [];
+  for (let i = 0; parts[0] + i * parts[2] <= parts[1] + 1e-12; i++) {
+    values.push(Number((parts[0] + i * parts[2]).toPrecision(12)));
+    if (values.length > 10_000) throw new InputError(`--b-scan: '${text}' gives more than 10000 values of b`);
+  }
+  return values;
 }
 
 /** A numeric option that has no default: null when not given. */
@@ -254,12 +263,12 @@ function deepFreeze<T>(o: T): T {
 }
 
 /** Reads the study spec a folder holds (spec.json), for `report`, `compare` and `merge`. */
-export function readStudyFolder(dir: string): { spec: StudySpec; shard: { k: number; count: number } | null } {
+export function readStudyFolder(dir: string): { spec: StudySpec; shard: { k: number; count: number } | null; build?: Partial<BuildStamp> } {
   const path = join(dir, "spec.json");
   if (!existsSync(dir)) throw new InputError(`${dir}: folder does not exist`);
   if (!existsSync(path)) throw new InputError(`${dir}: not a speedbound output folder (no spec.json)`);
   try {
-    return JSON.parse(readFileSync(path, "utf8")) as { spec: StudySpec; shard: { k: number; count: number } | null };
+    return JSON.parse(readFileSync(path, "utf8")) as { spec: StudySpec; shard: { k: number; count: number } | null; build?: Partial<BuildStamp> };
   } catch {
     throw new InputError(`${path}:1: spec.json does not parse`);
   }

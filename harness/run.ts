@@ -19,6 +19,7 @@ import { materialise } from "./families/registry.js";
 import { costTolerance } from "./model/problem.js";
 import { ensureWritableFolder } from "./fs-guard.js";
 import { lockFolder } from "./folder-lock.js";
+import { GENERATION_STOPPED, withDrawStop } from "./families/draw-stop.js";
 import { assertResumable, buildStamp, type BuildStamp } from "./build-info.js";
 
 /** How a run is carried out (not part of the study's identity). */
@@ -194,7 +195,11 @@ async function runLocked(spec: StudySpec, options: RunOptions): Promise<RunSumma
       try {
         // The slice plan needs the problem's kind and symmetry only; generating in the main thread is cheap
         // except for --satisfiable/--unique, which the first worker answer would repeat anyway.
-        const problem = materialise(ctxOf(inst)).problem;
+        // Generation counts against the budget and the cell limit; this thread is busy meanwhile, so the timers
+        // cannot fire and the check reads the clock itself.
+        const t0 = Date.now();
+        const limitAt = options.cellLimitMs === null ? Infinity : t0 + options.cellLimitMs;
+        const problem = withDrawStop(() => state.stopping || Date.now() >= Math.min(state.deadline, limitAt), () => materialise(ctxOf(inst))).problem;
         const slices = planSlices(problem, options.workers);
         const answers = await Promise.all(
           slices.map((slice) => pool.run<TruthSliceAnswer>({ type: "truth-slice", ctx: ctxOf(inst), slice, stop: flag })),
@@ -210,7 +215,9 @@ async function runLocked(spec: StudySpec, options: RunOptions): Promise<RunSumma
           assignments: merged.assignments, mean: answers[0].mean,
         };
       } catch (e) {
-        return { ...base, status: "error", wall_ns: 0, message: messageOf(e), seed: "", meta: {}, optimum: null, degeneracy: null, assignments: 0, mean: null };
+        if (e instanceof InputError) throw e; // an unmeetable filter (e.g. --satisfiable at a high density) ends the study: bad input
+        const stopped = messageOf(e).startsWith(GENERATION_STOPPED);
+        return { ...base, status: stopped ? "censored" : "error", wall_ns: 0, message: messageOf(e), seed: "", meta: {}, optimum: null, degeneracy: null, assignments: 0, mean: null };
       }
     });
   };

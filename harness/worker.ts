@@ -10,16 +10,19 @@ import { exhaustiveSlice } from "../solvers/exhaustive.js";
 import { walkTrials } from "../solvers/walk.js";
 import { annealTrials, defaultBetaRange } from "../solvers/anneal.js";
 import { computeSpectral } from "./predict/spectral-cell.js";
+import { withDrawStop } from "./families/draw-stop.js";
 
 // Slices and runs of one instance usually reach the same worker in a row; regenerating is cheap for plain
 // draws but costs exact enumerations for --satisfiable/--unique, so the last instance is kept.
 let cachedKey = "";
 let cached: GeneratedInstance | null = null;
+/** The running task's stop flag: a limit raised while redrawing formulas stops the redraws too. */
+let currentStop: Int32Array | null = null;
 
 function instanceFor(ctx: InstanceContext): GeneratedInstance {
   const key = JSON.stringify(ctx);
   if (key !== cachedKey || cached === null) {
-    cached = materialise(ctx);
+    cached = withDrawStop(() => currentStop !== null && Atomics.load(currentStop, 0) === 1, () => materialise(ctx));
     cachedKey = key;
   }
   return cached;
@@ -33,6 +36,7 @@ function elapsed(start: bigint): number {
 export default function handle(task: Task): TruthSliceAnswer | TrialsAnswer | SpectralAnswer {
   // Tell the run loop that computing starts now: cell limits count from here, not from the queue.
   Atomics.store(task.stop, 1, 1);
+  currentStop = task.stop;
   switch (task.type) {
     case "truth-slice": {
       const inst = instanceFor(task.ctx);
