@@ -87,7 +87,8 @@ export function ensureWritableFolder(dir: string, label: string): string {
     try {
       kind = statSync(at).isDirectory() ? "dir" : "other";
     } catch (e) {
-      if (codeOf(e) !== "ENOENT") throw writeFailure(e, label, target) ?? e;
+      // ENOTDIR: an ancestor is a file; keep walking up to name it.
+      if (codeOf(e) !== "ENOENT" && codeOf(e) !== "ENOTDIR") throw writeFailure(e, label, target) ?? e;
       kind = "none";
     }
     if (kind === "dir") break;
