@@ -79,7 +79,7 @@ export function lockFolder(dir: string, label: string, command: string): FolderL
       const owner = readOwner(path);
       if (owner && ownerAlive(owner)) {
         throw new InputError(
-          `${label}: '${dir}' is in use by another speedbound run (pid ${owner.pid} on ${owner.host}, since ${owner.since}); wait for it to end or use another folder`,
+          `${label}: '${dir}' is in use by another speedbound run (pid ${owner.pid} on ${owner.host}, since ${owner.since}); wait for it to end or use another folder${owner.host === hostname() ? "" : ` (its liveness cannot be checked from ${hostname()}: if that run is gone, remove ${path})`}`,
         );
       }
       // Stale (its owner is gone, or the file is unreadable): move it aside so exactly one taker removes it.
