@@ -6,7 +6,7 @@
  *    Node's synchronous require(esm) path, and a termination inside it aborts the process (exit 134, "FATAL ERROR:
  *    v8::Module::IsGraphAsync ... must be used on an instantiated module" or a CreateRequiredModuleFacade check).
  *  - shim: the CommonJS worker-entry.cjs the pool uses now (import() of the ESM worker; no require(esm)).
- * Measured on the shared 2-core machine, Node 20.20.2 (random-delay runs of the same loop): esm 4 aborts in 900; shim 0 in 900. The abort window is narrow (module instantiation), so a few hundred cycles may show none.
+ * Measured on the shared 2-core machine, Node 20.20.2 (random-delay runs of the same loop): esm 7 aborts in 1700 (3 in 500 with this script); shim 0 in 900. The abort window is narrow (module instantiation), so a few hundred cycles may show none.
  */
 import { spawnSync } from "node:child_process";
 import { fileURLToPath } from "node:url";
