@@ -1,3 +1,3 @@
 #!/usr/bin/env node
 // Thin launcher: the CLI always runs as compiled JavaScript (see DEVELOPERS.md, "Build").
-import "../dist/harness/cli.js";
+import "../dist/harness/cli/cli.js";

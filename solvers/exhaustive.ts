@@ -9,7 +9,7 @@ import { costTolerance, sizeOf } from "../harness/model/problem.js";
 import { hasFlipSymmetry } from "../harness/model/ising.js";
 import { CNF_EXACT_MAX_VARIABLES, exhaustiveCnfSlice } from "./exhaustive-cnf.js";
 import { SPIN_EXACT_MAX, exhaustiveSpinSlice } from "./exhaustive-spin.js";
-import type { ExactResult, StopFlag } from "./types.js";
+import type { ExactResult, ExactSolver, StopFlag } from "./types.js";
 
 /** One slice of the enumeration: the top `prefixBits` bits of z fixed to `prefix`. */
 export interface Slice {
@@ -72,3 +72,14 @@ export function mergeExact(results: ReadonlyArray<ExactResult>, tolerance: numbe
   }
   return { optimum, degeneracy, assignments, complete };
 }
+
+/** Exhaustive enumeration on the solver registry: the ground truth of every instance within its limit. */
+export const exhaustiveSolver: ExactSolver<Slice> = {
+  name: "exhaustive",
+  kind: "exact",
+  description: "exact optimum and degeneracy by enumerating all 2^n configurations (always runs: the ground truth)",
+  maxSize: (kind) => (kind === "cnf" ? CNF_EXACT_MAX_VARIABLES : SPIN_EXACT_MAX),
+  plan: planSlices,
+  run: exhaustiveSlice,
+  merge: mergeExact,
+};

@@ -11,9 +11,10 @@
  * lists in compressed-row typed arrays, and an indexed list of violated clauses with O(1) insert and delete.
  * A step costs O(occurrences of the flipped variable); nothing is ever rescanned.
  */
-import { deriveSeed, Rng } from "../harness/random.js";
+import { compileCnf, type CompiledCnf } from "./compile-cnf.js";
+import { trialKey, trialRng } from "./trial-seeds.js";
 import type { Cnf } from "../harness/model/cnf.js";
-import { stopRequested, type StopFlag, type TrialsResult } from "./types.js";
+import { stopRequested, type StopFlag, type TrialsResult, type TrialsSolver } from "./types.js";
 
 /** Options of {@link walkTrials}. */
 export interface WalkOptions {
@@ -31,173 +32,6 @@ export interface WalkOptions {
 
 /** Steps (flips or trial starts) between two polls of the stop flag. */
 export const WALK_POLL_INTERVAL = 4096;
-
-/**
- * A CNF formula compiled for local search: duplicate literals merged, tautological clauses (x ∨ ¬x ∨ …)
- * dropped (no assignment violates them), empty clauses counted apart (every assignment violates them).
- * Literal code = 2·(variable index, 0-based) + (1 for a positive literal); a literal is true when
- * `value[code >> 1] === (code & 1)`.
- */
-export interface CompiledCnf {
-  /** Number of variables n. */
-  readonly variables: number;
-  /** Number of kept clauses (non-empty, non-tautological). */
-  readonly clauses: number;
-  /** Number of empty clauses in the input: a constant part of the cost. */
-  readonly emptyClauses: number;
-  /** Kept clause c occupies clauseLiterals[clauseStart[c] .. clauseStart[c+1]); length clauses + 1. */
-  readonly clauseStart: Int32Array;
-  /** Literal codes, clause after clause, each variable at most once per clause. */
-  readonly clauseLiterals: Int32Array;
-  /** Clauses containing literal code ℓ: occurrences[occurrenceStart[ℓ] .. occurrenceStart[ℓ+1]); length 2n + 1. */
-  readonly occurrenceStart: Int32Array;
-  /** Clause indices, literal code after literal code. */
-  readonly occurrences: Int32Array;
-  /** Largest number of kept clauses containing one variable (either sign). */
-  readonly maxOccurrences: number;
-  /**
-   * The common length k of all kept clauses (then clause c occupies clauseLiterals[k·c .. k·c + k)), or 0 when
-   * lengths differ or no clause was kept.
-   */
-  readonly clauseLength: number;
-}
-
-/**
- * Compiles a {@link Cnf} for local search (see {@link CompiledCnf}).
- * @throws RangeError on a literal 0 or a variable outside 1..n.
- */
-export function compileCnf(cnf: Cnf): CompiledCnf {
-  const n = cnf.variables;
-  const m = cnf.offsets.length - 1;
-  const start: number[] = [0];
-  const lits: number[] = [];
-  let emptyClauses = 0;
-  // Marks of the clause being read, reset after each clause: 0 unseen, 1 seen positive, 2 seen negative.
-  const mark = new Uint8Array(n);
-  for (let c = 0; c < m; c++) {
-    const from = cnf.offsets[c];
-    const to = cnf.offsets[c + 1];
-    if (from === to) {
-      emptyClauses++;
-      continue;
-    }
-    const begin = lits.length;
-    let tautology = false;
-    for (let i = from; i < to; i++) {
-      const lit = cnf.literals[i];
-      const v = lit > 0 ? lit - 1 : -lit - 1;
-      if (lit === 0 || v >= n) throw new RangeError(`clause ${c + 1}: literal ${lit} outside 1..${n}`);
-      const sign = lit > 0 ? 1 : 2;
-      if (mark[v] === 0) {
-        mark[v] = sign;
-        lits.push(2 * v + (lit > 0 ? 1 : 0));
-      } else if (mark[v] !== sign) {
-        tautology = true;
-      }
-    }
-    for (let i = begin; i < lits.length; i++) mark[lits[i] >> 1] = 0;
-    if (tautology) lits.length = begin;
-    else start.push(lits.length);
-  }
-  const clauses = start.length - 1;
-  const clauseStart = Int32Array.from(start);
-  const clauseLiterals = Int32Array.from(lits);
-
-  const occurrenceStart = new Int32Array(2 * n + 1);
-  for (const code of clauseLiterals) occurrenceStart[code + 1]++;
-  for (let l = 0; l < 2 * n; l++) occurrenceStart[l + 1] += occurrenceStart[l];
-  const fill = occurrenceStart.slice(0, 2 * n);
-  const occurrences = new Int32Array(clauseLiterals.length);
-  for (let c = 0; c < clauses; c++) {
-    for (let i = clauseStart[c]; i < clauseStart[c + 1]; i++) occurrences[fill[clauseLiterals[i]]++] = c;
-  }
-  let maxOccurrences = 0;
-  for (let v = 0; v < n; v++) {
-    maxOccurrences = Math.max(maxOccurrences, occurrenceStart[2 * v + 2] - occurrenceStart[2 * v]);
-  }
-  let clauseLength = clauses > 0 ? clauseStart[1] : 0;
-  for (let c = 1; c < clauses && clauseLength > 0; c++) if (clauseStart[c + 1] - clauseStart[c] !== clauseLength) clauseLength = 0;
-  return { variables: n, clauses, emptyClauses, clauseStart, clauseLiterals, occurrenceStart, occurrences, maxOccurrences, clauseLength };
-}
-
-/** The per-cell key of {@link trialRng}: four 32-bit words, computed once per call by {@link trialKey}. */
-export type TrialKey = Int32Array;
-
-/**
- * The key of a cell seed for {@link trialRng}: the first 128 bits of SHA-256 of the canonical JSON
- * `[seed, "trial"]` (that is, `deriveSeed(seed, "trial")`), read as four big-endian 32-bit words k0..k3.
- * Costs one SHA-256 (≈ 1.5 µs), so callers compute it once per cell and pass it to {@link trialRng}.
- */
-export function trialKey(seed: string): TrialKey {
-  const hex = deriveSeed(seed, "trial");
-  const key = new Int32Array(4);
-  for (let i = 0; i < 4; i++) key[i] = parseInt(hex.slice(8 * i, 8 * i + 8), 16);
-  return key;
-}
-
-/** Odd increments of the four Weyl sequences in {@link trialRng} (fractional parts of √2, √3, √5, √7 × 2^32, made odd). */
-const TRIAL_GAMMA = Int32Array.of(0x6a09e667, 0xbb67ae85 | 0, 0x3c6ef373, 0xa54ff53b | 0);
-
-/**
- * The generator of trial t of a cell, shared by the walk and the annealer; the only place trial seeding is
- * defined. Trial t of a cell: write t = 2^32·t_hi + t_lo; with the key words k0..k3 of {@link trialKey}(seed),
- * state word i = fmix32((k_i XOR fmix32(t_hi)) + (t_lo + 1)·γ_i mod 2^32), i = 0..3, with γ the odd constants
- * 0x6a09e667, 0xbb67ae85, 0x3c6ef373, 0xa54ff53b and fmix32 the 32-bit finaliser of MurmurHash3 (x ^= x >>> 16;
- * x ·= 0x85ebca6b; x ^= x >>> 13; x ·= 0xc2b2ae35; x ^= x >>> 16, products mod 2^32); the generator is
- * `Rng.fromWords` of these words (xoshiro128**; an all-zero state is replaced there). Each word is thus the
- * output of a SplitMix-style generator (a Weyl sequence through a bijective mixer: Steele, Lea & Flood, "Fast
- * splittable pseudorandom number generators", OOPSLA 2014) at step t, keyed by the cell, following the advice
- * of xoshiro's authors to fill its state from such a generator. Depends on nothing but (seed, t), so trial
- * counts do not depend on how a range of trials is split. Cost: about 70 ns with a precomputed key, against
- * 1.7 µs for the SHA-256 per trial of the derivation it replaced (`new Rng(deriveSeed(seed, "trial", t))`, an
- * eighth of a 3n-flip walk trial at n = 28 then).
- * @param seed - the cell seed, or its {@link trialKey} (what the solvers pass, hashing once per call).
- * @param t - trial index, a safe integer ≥ 0.
- */
-export function trialRng(seed: string | TrialKey, t: number): Rng {
-  const key = typeof seed === "string" ? trialKey(seed) : seed;
-  const hi = fmix32((t / 4294967296) >>> 0); // t_hi (t < 2^53)
-  const step = (t + 1) | 0; // t_lo + 1 mod 2^32
-  return Rng.fromWords(
-    fmix32((key[0] ^ hi) + Math.imul(step, TRIAL_GAMMA[0])),
-    fmix32((key[1] ^ hi) + Math.imul(step, TRIAL_GAMMA[1])),
-    fmix32((key[2] ^ hi) + Math.imul(step, TRIAL_GAMMA[2])),
-    fmix32((key[3] ^ hi) + Math.imul(step, TRIAL_GAMMA[3])),
-  );
-}
-
-/** MurmurHash3's 32-bit finaliser (a bijection of 32-bit words with full avalanche), on int32 values. */
-function fmix32(x: number): number {
-  x ^= x >>> 16;
-  x = Math.imul(x, 0x85ebca6b);
-  x ^= x >>> 13;
-  x = Math.imul(x, 0xc2b2ae35);
-  return x ^ (x >>> 16);
-}
-
-/**
- * Uniform integer in [0, bound) for 1 ≤ bound ≤ 2^32, by the same rejection method as `Rng.below`
- * (Lemire, ACM TOMACS 29 (2019)) and drawing the same numbers. This was the walk's fast draw while `Rng.below`
- * used floating-point modulo; `Rng.below` now works the same way and the walk calls it, and this stays as a
- * second implementation the tests compare it with.
- */
-export function uniformBelow(rng: Rng, bound: number): number {
-  let x = rng.nextU32();
-  let low = Math.imul(x, bound) >>> 0;
-  if (low < bound) {
-    const threshold = (4294967296 - bound) % bound;
-    while (low < threshold) {
-      x = rng.nextU32();
-      low = Math.imul(x, bound) >>> 0;
-    }
-  }
-  if (bound <= 2097152) return Math.floor((x * bound) / 4294967296);
-  // x·bound exceeds 2^53 here: form the high word from 16-bit halves so it stays exact.
-  const xh = x >>> 16;
-  const xl = x & 0xffff;
-  const mid = xl * bound;
-  return Math.floor((xh * bound + Math.floor(mid / 65536)) / 65536);
-}
 
 /**
  * Runs Schöning's walk trials `firstTrial .. firstTrial + trials − 1` on a formula.
@@ -384,3 +218,23 @@ export function walkCompiled(f: CompiledCnf, options: WalkOptions): TrialsResult
 function checkCount(name: string, value: number): void {
   if (!Number.isSafeInteger(value) || value < 0) throw new RangeError(`${name} must be an integer ≥ 0, got ${value}`);
 }
+
+/** Settings of the walk on the registry: none beyond the run length (flips per trial). */
+export type WalkSettings = Readonly<Record<string, never>>;
+
+/** Schöning's walk on the solver registry (solvers/registry.ts). Run length = maximum flips per trial. */
+export const walkSolver: TrialsSolver<WalkSettings> = {
+  name: "walk",
+  kind: "trials",
+  description: "Schöning's random walk: random start, up to K·n flips of a variable of a violated clause, restart",
+  options: ["walk-flips", "trials"],
+  runLengthUnit: "flips",
+  appliesTo: (target) => (target.kind === "cnf" ? null : `walk (Schöning) applies to k-SAT/CNF families only, not '${target.family}'`),
+  skipReason: (truth) => (truth.optimum > 0 ? "not applicable: unsatisfiable, and Schöning's walk only finds models" : null),
+  runLengths: (n, study) => [Number(study.options["walk-flips"]) * n],
+  settings: () => ({}),
+  run(problem, input) {
+    if (problem.kind !== "cnf") throw new Error("walk applies to CNF instances only");
+    return walkTrials(problem.cnf, { trials: input.trials, maxFlips: input.runLength, seed: input.seed, stop: input.stop, firstTrial: 0 });
+  },
+};

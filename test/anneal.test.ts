@@ -5,7 +5,7 @@ import { isingFromTerms } from "../harness/model/ising.js";
 import { costOf, costTolerance, sizeOf, type Problem } from "../harness/model/problem.js";
 import type { TrialsResult } from "../solvers/types.js";
 import { annealTrials, betaSchedule, defaultBetaRange, type AnnealOptions } from "../solvers/anneal.js";
-import { trialRng } from "../solvers/walk.js";
+import { trialRng } from "../solvers/trial-seeds.js";
 
 /** Exact optimum by evaluating every configuration (costOf is the reference evaluator of the model). */
 function bruteOptimum(problem: Problem): number {
@@ -248,12 +248,26 @@ describe("defaultBetaRange", () => {
     expect(Number.isFinite(r.betaStart) && r.betaStart > 0).toBe(true);
     expect(Number.isFinite(r.betaEnd)).toBe(true);
     expect(r.betaEnd).toBeGreaterThan(r.betaStart);
-    expect(r.rule).toMatch(/ln2.*ln1000/);
+    expect(r.rule).toMatch(/T_hot = median uphill dE.*ln\(1\/0\.6\).*T_cold.*ln\(1\/0\.002\)/);
+    expect(r.temperatureHot).toBeCloseTo(1 / r.betaStart, 12);
+    expect(r.temperatureCold).toBeCloseTo(1 / r.betaEnd, 12);
     expect(defaultBetaRange(problem)).toEqual(r); // deterministic
   });
 
-  it("gives betaEnd = ln 1000 for CNF, whose smallest uphill step at a local minimum is one clause (the rule)", () => {
-    expect(defaultBetaRange(cases[1][1]).betaEnd).toBeCloseTo(Math.log(1000), 12);
+  it("gives T_cold = 1/ln 500 for CNF, whose smallest uphill step at a local minimum is one clause (the rule)", () => {
+    // Hand computation: δ = 1 clause, accepted with probability 0.002 ⇒ T_cold = 1/ln(1/0.002), β_end = ln 500.
+    expect(defaultBetaRange(cases[1][1]).betaEnd).toBeCloseTo(Math.log(500), 12);
+  });
+
+  it("matches a hand computation on the one-clause formula (x1): every uphill step is 1 clause", () => {
+    // Random states: the flip of x1 goes uphill (0 → 1 violated) exactly when x1 is true, by 1; the median
+    // uphill step is 1, so T_hot = 1/ln(1/0.6) and β_start = ln(1/0.6) = 0.5108…; at the local minimum
+    // (x1 true) the only uphill step is 1, so β_end = max(ln 500, (ln 500/ln(1/0.6))·β_start) = ln 500.
+    const one: Problem = { kind: "cnf", cnf: { variables: 1, offsets: Int32Array.of(0, 1), literals: Int32Array.of(1) } };
+    const r = defaultBetaRange(one);
+    expect(r.betaStart).toBeCloseTo(Math.log(1 / 0.6), 14);
+    expect(r.betaEnd).toBeCloseTo(Math.log(500), 12);
+    expect(r.temperatureHot).toBeCloseTo(1 / Math.log(1 / 0.6), 12);
   });
 
   it("scales inversely with the energy scale: couplings × 4 give β / 4 exactly (ΔE scale exactly by a power of 2)", () => {
@@ -272,7 +286,8 @@ describe("defaultBetaRange", () => {
   it("falls back to scale 1 when nothing can change the cost (no couplings)", () => {
     const flat: Problem = { kind: "ising", ising: isingFromTerms(5, [{ spins: [0, 1], J: 0 }]) };
     const r = defaultBetaRange(flat);
-    expect(r.betaStart).toBeCloseTo(Math.LN2, 15);
-    expect(r.betaEnd).toBeCloseTo(Math.log(1000), 12);
+    // Scale 1 at both ends: β_start = ln(1/0.6), β_end = ln(1/0.002) = ln 500.
+    expect(r.betaStart).toBeCloseTo(Math.log(1 / 0.6), 15);
+    expect(r.betaEnd).toBeCloseTo(Math.log(500), 12);
   });
 });

@@ -38,6 +38,8 @@ const cases: Array<{ name: string; args: (out: string) => string[]; pattern: Reg
   { name: "spectral beyond its memory limit", args: (o) => ["run", "--family", "ksat", "--n", "20:26:2", "--predict", "spectral", "--out", o], pattern: /--predict: spectral needs n ≤ 24/ },
   { name: "walk on a spin family", args: (o) => ["run", "--family", "sk", "--solvers", "walk", "--out", o], pattern: /--solvers: walk .* applies to k-SAT\/CNF families only/ },
   { name: "impossible regular graph", args: (o) => ["run", "--family", "maxcut", "--n", "7", "--degree", "3", "--out", o], pattern: /--n: no simple 3-regular graph on 7 vertices/ },
+  // p-spin at p = 8, n = 40 has C(40, 8) ≈ 7.7·10^7 terms: refused at the edge (it used to pass and fail every cell).
+  { name: "p-spin beyond its term limit", args: (o) => ["run", "--family", "pspin", "-p", "8", "--n", "40", "--out", o], pattern: /--n: size 40 with p = 8 has C\(40, 8\) = 76904685 terms/ },
   { name: "missing input folder", args: (o) => ["run", "--family", "cnf", "--from", join(root, "nope"), "--out", o], pattern: /--from: folder '.*nope' does not exist/ },
   { name: "input path is a file", args: (o) => ["run", "--family", "cnf", "--from", join(root, "notafolder"), "--out", o], pattern: /--from: '.*notafolder' is not a folder/ },
   { name: "empty input folder", args: (o) => ["run", "--family", "cnf", "--from", join(root, "empty"), "--out", o], pattern: /--from: folder '.*empty' has no \.cnf files/ },

@@ -6,7 +6,7 @@ import { execFileSync, spawnSync } from "node:child_process";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { cli, cliAsync } from "./helpers/cli.js";
-import { STREAM_SCHEME } from "../harness/build-info.js";
+import { STREAM_SCHEME } from "../harness/engine/build-info.js";
 
 const TINY = ["--n", "6", "--instances", "2", "--trials", "5", "--sweeps", "10", "--predict", "grover", "--workers", "2", "--seed", "rel-1"];
 let root = "";
@@ -74,8 +74,9 @@ describe("bad input: one line, exit 2", () => {
     ["missing value of --family", ["run", "--family"], /^speedbound: --family: needs a value$/],
     ["repeated --out", ["run", "--out", "A", "--out", "B"], /^speedbound: --out: given more than once/],
     ["repeated --seed (also as --seed=)", ["run", "--seed", "1", "--seed=2"], /^speedbound: --seed: given more than once/],
+    ["repeated -n as --n", ["run", "-n", "10", "--n", "12"], /^speedbound: --n: given more than once/],
+    ["an older spelling repeats its new name", ["run", "--b-scan", "0:1:0.5", "--spectral-b-scan", "0:1:0.5"], /^speedbound: --spectral-b-scan: given more than once/],
     ["repeated --cell-limit as --cellLimit", ["run", "--cell-limit", "1s", "--cellLimit", "2s"], /^speedbound: --cell-limit: given more than once/],
-    ["instance without --n", ["instance"], /^speedbound: --n: required for this command$/],
     ["unknown command", ["rn"], /^speedbound: unknown command 'rn' \(did you mean run\?\); commands: run, demo, solve, instance, report, spectral, merge, compare, slurm, cost$/],
   ];
   for (const [name, args, pattern] of cases) {
@@ -86,10 +87,20 @@ describe("bad input: one line, exit 2", () => {
     });
   }
 
+  it("instance without --n uses the default shown by --help (20)", () => {
+    // The option table gives `instance` its own default (harness/cli/options.ts, commandDefaults); --help shows it.
+    const help = cli(["instance", "--help"]);
+    expect(help.code).toBe(0);
+    expect(help.stdout).toMatch(/-n\b[^\n]*\[default: 20\]/);
+    const r = cli(["instance"]);
+    expect(r.code, r.stderr).toBe(0);
+    expect(r.stdout).toMatch(/^p cnf 20 /m);
+  });
+
   it("spectral refuses a malformed --b-scan", () => {
     const file = join(root, "g.cnf");
     writeFileSync(file, "p cnf 2 1\n1 2 0\n");
-    expectOneLine(cli(["spectral", file, "--b-scan", "garbage"]), /^speedbound: --b-scan: 'garbage' is not FROM:TO:STEP/);
+    expectOneLine(cli(["spectral", file, "--b-scan", "garbage"]), /^speedbound: --spectral-b-scan: 'garbage' is not FROM:TO:STEP/);
   });
 
   it("spectral honours --b-scan: one result per b", () => {
@@ -138,13 +149,14 @@ describe("versioned study folders and manifest", () => {
     const pkg = JSON.parse(readFileSync(join(process.cwd(), "package.json"), "utf8")) as { version: string };
     expect(spec.build.version).toBe(pkg.version);
     expect(spec.build.stream_scheme).toBe(STREAM_SCHEME);
-    const manifest = JSON.parse(readFileSync(join(dir, "manifest.json"), "utf8")) as Record<string, unknown> & { resolved_options: Record<string, unknown> };
+    const manifest = JSON.parse(readFileSync(join(dir, "manifest.json"), "utf8")) as Record<string, unknown> & { options: Record<string, unknown> };
     expect(manifest.version).toBe(pkg.version);
     expect(manifest).toHaveProperty("git_commit");
-    expect(manifest.resolved_options.budget_ms).toBe(600_000);
-    expect(manifest.resolved_options.cell_limit_ms).toBe(60_000);
-    expect(manifest.resolved_options.seed).toBe("rel-1");
-    expect(manifest.resolved_options.k).toBe(3); // a default, recorded as it took effect
+    expect(manifest.budget_ms).toBe(600_000);
+    expect(manifest.cell_limit_ms).toBe(60_000);
+    expect(manifest.options.budget).toBe("10m");
+    expect(manifest.options.seed).toBe("rel-1");
+    expect(manifest.options.k).toBe(3); // a default, recorded as it took effect
     expect(manifest.stream_scheme).toBe(STREAM_SCHEME);
   });
 

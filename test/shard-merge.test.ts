@@ -4,7 +4,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { cpSync, mkdtempSync, rmSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
-import { shardInstances, instancesOf, type StudySpec } from "../harness/study.js";
+import { shardInstances, instancesOf, type StudySpec } from "../harness/engine/study.js";
 import { cli, withoutTiming } from "./helpers/cli.js";
 
 const STUDY = ["--family", "ksat", "--n", "8:14:2", "--instances", "3", "--seed", "shards", "--solvers", "exhaustive,walk", "--trials", "40", "--workers", "1"];

@@ -8,7 +8,7 @@ import { mkdirSync, mkdtempSync, readFileSync, readdirSync, rmSync, writeFileSyn
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { afterAll, describe, expect, it } from "vitest";
-import { slurmScripts } from "../harness/slurm.js";
+import { slurmScripts } from "../harness/cluster/slurm.js";
 import { CLI } from "./helpers/paths.js";
 import { cli, isTimingColumn, readCsv } from "./helpers/cli.js";
 import { diagnostics, jobStates, showJob, slurmCluster, submit, waitForJobs, writeScripts } from "./helpers/slurm.js";

@@ -8,7 +8,7 @@ import { existsSync, mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { afterAll, describe, expect, it } from "vitest";
-import { SLURM_FILES, shellQuote, slurmScripts, type SlurmOptions } from "../harness/slurm.js";
+import { SLURM_FILES, shellQuote, slurmScripts, type SlurmOptions } from "../harness/cluster/slurm.js";
 import { InputError } from "../harness/errors.js";
 import { writeScripts } from "./helpers/slurm.js";
 

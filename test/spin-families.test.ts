@@ -4,7 +4,7 @@ import { InputError } from "../harness/errors.js";
 import { maxcutFamily } from "../harness/families/maxcut.js";
 import { pspinFamily, pspinVariance } from "../harness/families/pspin.js";
 import { skFamily } from "../harness/families/sk.js";
-import type { Family, FamilyParams } from "../harness/families/types.js";
+import type { GeneratedFamily as Family, FamilyParams } from "../harness/families/types.js";
 import type { Ising } from "../harness/model/ising.js";
 
 function isingOf(family: Family, seed: string, params: FamilyParams, n: number, index: number): Ising {

@@ -3,7 +3,9 @@ import { describe, expect, it } from "vitest";
 import { deriveSeed, Rng } from "../harness/random.js";
 import { clausesOf, cnfFromClauses, violatedBy, type Cnf } from "../harness/model/cnf.js";
 import { wilsonInterval } from "../harness/stats/tts.js";
-import { compileCnf, trialKey, trialRng, uniformBelow, walkTrials } from "../solvers/walk.js";
+import { walkTrials } from "../solvers/walk.js";
+import { compileCnf } from "../solvers/compile-cnf.js";
+import { trialKey, trialRng, uniformBelow } from "../solvers/trial-seeds.js";
 
 /** Fewest violated clauses over all 2^n assignments (brute force, n ≤ 20). */
 function bruteOptimum(cnf: Cnf): number {

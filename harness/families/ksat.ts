@@ -13,7 +13,7 @@ import { Rng, deriveSeed } from "../random.js";
 import { exhaustiveCnfSlice } from "../../solvers/exhaustive-cnf.js";
 import { canonicalParams } from "./params.js";
 import { checkDrawStop } from "./draw-stop.js";
-import type { Family, FamilyParams, GeneratedInstance } from "./types.js";
+import type { FamilyParams, GeneratedFamily, GeneratedInstance } from "./types.js";
 
 /**
  * Default clause density α per k: the satisfiability thresholds computed by the cavity method in
@@ -107,8 +107,22 @@ export function validateKsat(p: KsatParams, n: number): void {
 }
 
 /** The `ksat` family. */
-export const ksatFamily: Family = {
+export const ksatFamily: GeneratedFamily = {
   name: "ksat",
+  kind: "cnf",
+  source: "generated",
+  description: "uniform random k-SAT: k distinct variables a clause, random signs, m = round(α·n) clauses",
+  params: ["k", "density", "planted", "satisfiable", "unique"],
+  resolveParams(read) {
+    const k = read.number("k");
+    const density = read.given("density") ? read.number("density") : defaultDensity(k);
+    if (!(density > 0)) throw new InputError(`--density: must be positive, got ${density}`);
+    const unique = read.flag("unique");
+    return { k, density, planted: read.flag("planted"), satisfiable: read.flag("satisfiable") || unique, unique };
+  },
+  checkSize: (n, params) => (n < Number(params.k) ? `--n: size ${n} is smaller than k = ${params.k}` : null),
+  flipSymmetric: () => false,
+  costShape: (params) => ({ kind: "ksat", clausesPerVariable: Number(params.density), k: Number(params.k), termsAt: () => 0, order: 0 }),
   generate(masterSeed: string, params: FamilyParams, n: number, index: number): GeneratedInstance {
     const p = ksatParams(params);
     validateKsat(p, n);

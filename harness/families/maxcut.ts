@@ -16,7 +16,7 @@ import { InputError } from "../errors.js";
 import type { Ising } from "../model/ising.js";
 import { Rng, deriveSeed } from "../random.js";
 import { canonicalParams } from "./params.js";
-import type { Family, FamilyParams, GeneratedInstance } from "./types.js";
+import type { GeneratedFamily, FamilyParams, GeneratedInstance } from "./types.js";
 
 /** Rejected pairings after which an instance is refused (acceptance ≈ exp(−(d²−1)/4): ~8·10^−7 at d = 8). */
 export const MAXCUT_MAX_REJECTIONS = 1_000_000;
@@ -30,8 +30,21 @@ export function cutValue(edges: number, energy: number): number {
  * The `maxcut` family. Parameters: `degree` (integer d ≥ 1, default 3; d < n and n·d even). Edges (i < j) come in
  * lexicographic order, each a term {i, j} with J = −1; meta = { degree, edges, rejected_draws }.
  */
-export const maxcutFamily: Family = {
+export const maxcutFamily: GeneratedFamily = {
   name: "maxcut",
+  kind: "ising",
+  source: "generated",
+  description: "MaxCut on random d-regular graphs (energy Σ_edges s_i s_j; cut = (edges − E)/2)",
+  params: ["degree"],
+  resolveParams: (read) => ({ degree: read.number("degree") }),
+  checkSize(n, params) {
+    const d = Number(params.degree);
+    return n <= d || (n * d) % 2 === 1 ? `--n: no simple ${d}-regular graph on ${n} vertices (need n > d and n·d even)` : null;
+  },
+  flipSymmetric: () => true,
+  costShape: (params) => ({ kind: "ising", clausesPerVariable: 0, k: 0, termsAt: (n) => (n * Number(params.degree)) / 2, order: 2 }),
+  // The optimum energy Σ_edges s_i s_j as the largest cut, (edges − E)/2.
+  describe: (meta, optimum): Record<string, number> => (optimum === null ? {} : { max_cut: cutValue(Number(meta.edges), optimum) }),
   generate(masterSeed: string, params: FamilyParams, n: number, index: number): GeneratedInstance {
     const d = Number(params.degree ?? 3);
     if (!Number.isInteger(d) || d < 1) throw new InputError(`--degree: ${String(params.degree)} must be a positive integer`);

@@ -7,10 +7,17 @@ import { InputError } from "../errors.js";
 import type { Ising } from "../model/ising.js";
 import { Rng, deriveSeed } from "../random.js";
 import { canonicalParams } from "./params.js";
-import type { Family, FamilyParams, GeneratedInstance } from "./types.js";
+import type { GeneratedFamily, FamilyParams, GeneratedInstance } from "./types.js";
 
 /** Largest number of terms one instance may have (C(n, p)); 5·10^7 terms are ~1 GB of arrays (common practice). */
 export const PSPIN_MAX_TERMS = 50_000_000;
+
+/** Number of terms C(n, p) of an instance (rounded from the product formula; exact below 2^53). */
+export function pspinTerms(n: number, p: number): number {
+  let terms = 1;
+  for (let k = 0; k < p; k++) terms = (terms * (n - k)) / (k + 1);
+  return Math.round(terms);
+}
 
 /** Variance of each coupling, p!/(2 n^{p−1}). */
 export function pspinVariance(n: number, p: number): number {
@@ -23,15 +30,36 @@ export function pspinVariance(n: number, p: number): number {
  * The `pspin` family. Parameters: `p` (integer ≥ 2, default 3, at most n). Terms come in lexicographic order of
  * their index sets; meta = { p, terms }.
  */
-export const pspinFamily: Family = {
+export const pspinFamily: GeneratedFamily = {
   name: "pspin",
+  kind: "ising",
+  source: "generated",
+  description: "dense p-spin glass over all C(n, p) p-subsets, Var J = p!/(2 n^{p−1})",
+  params: ["p"],
+  resolveParams: (read) => ({ p: read.number("p") }),
+  checkSize(n, params) {
+    const p = Number(params.p);
+    if (n < p) return `--n: size ${n} is smaller than p = ${p}`;
+    const terms = pspinTerms(n, p);
+    if (terms > PSPIN_MAX_TERMS) return `--n: size ${n} with p = ${p} has C(${n}, ${p}) = ${terms} terms, beyond the limit of ${PSPIN_MAX_TERMS}`;
+    return null;
+  },
+  // Terms of even order only: E(s) = E(−s).
+  flipSymmetric: (params) => Number(params.p) % 2 === 0,
+  costShape(params) {
+    const p = Number(params.p);
+    const binom = (n: number): number => {
+      let c = 1;
+      for (let i = 0; i < p; i++) c = (c * (n - i)) / (i + 1);
+      return c;
+    };
+    return { kind: "ising", clausesPerVariable: 0, k: 0, termsAt: binom, order: p };
+  },
   generate(masterSeed: string, params: FamilyParams, n: number, index: number): GeneratedInstance {
     const p = Number(params.p ?? 3);
     if (!Number.isInteger(p) || p < 2) throw new InputError(`--p: ${String(params.p)} must be an integer ≥ 2`);
     if (!Number.isInteger(n) || n < p) throw new InputError(`pspin: n = ${n} must be an integer ≥ p = ${p}`);
-    let terms = 1;
-    for (let k = 0; k < p; k++) terms = (terms * (n - k)) / (k + 1);
-    terms = Math.round(terms);
+    const terms = pspinTerms(n, p);
     if (terms > PSPIN_MAX_TERMS) throw new InputError(`pspin: C(${n}, ${p}) = ${terms} terms exceed ${PSPIN_MAX_TERMS}`);
     const seed = deriveSeed(masterSeed, "pspin", canonicalParams(params), n, index);
     const rng = new Rng(seed);

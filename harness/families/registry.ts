@@ -1,43 +1,49 @@
 /**
- * The instance families by name, and loading of instances from files (families `cnf` and `ising`).
+ * The family registry: every instance family by name, generated or read from files. Adding a family is one
+ * file exporting a {@link Family} and one line in {@link FAMILIES}; the option table, validation at the edge,
+ * the study, the worker and the tables ask this registry and never test a family's name.
  */
-import { readFileSync } from "node:fs";
-import { basename } from "node:path";
 import { InputError } from "../errors.js";
-import { parseDimacs } from "../formats/dimacs.js";
-import { parseCouplingList } from "../formats/coupling-list.js";
+import { cnfFolderFamily } from "./cnf-folder.js";
+import { isingFolderFamily } from "./ising-folder.js";
 import { ksatFamily } from "./ksat.js";
 import { maxcutFamily } from "./maxcut.js";
 import { pspinFamily } from "./pspin.js";
 import { skFamily } from "./sk.js";
-import type { Family, FamilyParams, GeneratedInstance } from "./types.js";
+import type { Family, FamilyParams, FolderFamily, GeneratedFamily, GeneratedInstance } from "./types.js";
 
-const GENERATED: ReadonlyMap<string, Family> = new Map([ksatFamily, skFamily, pspinFamily, maxcutFamily].map((f) => [f.name, f]));
+/** Every registered family, in the order `--help` lists them. */
+export const FAMILIES: ReadonlyArray<Family> = [ksatFamily, skFamily, pspinFamily, maxcutFamily, cnfFolderFamily, isingFolderFamily];
 
-/** Families read from a folder instead of generated. */
-export const FOLDER_FAMILIES: ReadonlySet<string> = new Set(["cnf", "ising"]);
+/** Names of every registered family. */
+export const FAMILY_NAMES: ReadonlyArray<string> = FAMILIES.map((f) => f.name);
 
-/** The generator for a family name, or an InputError naming the option. */
-export function generatorFor(name: string): Family {
-  const f = GENERATED.get(name);
-  if (!f) throw new InputError(`--family: unknown family '${name}' (generated: ${[...GENERATED.keys()].join(", ")}; from files: cnf, ising)`);
+/** The family of that name, or an InputError naming the option. */
+export function familyNamed(name: string): Family {
+  const f = FAMILIES.find((x) => x.name === name);
+  if (!f) throw new InputError(`--family: unknown family '${name}' (choose from ${FAMILY_NAMES.join(", ")})`);
   return f;
 }
 
-/** Reads one instance file: DIMACS CNF or our coupling list, by the family it belongs to. */
+/** The generated family of that name, or an InputError naming the option. */
+export function generatorFor(name: string): GeneratedFamily {
+  const f = familyNamed(name);
+  if (f.source !== "generated") {
+    throw new InputError(`--family: '${name}' is not a generated family (${FAMILIES.filter((x) => x.source === "generated").map((x) => x.name).join(", ")})`);
+  }
+  return f;
+}
+
+/** The folder family of that name (an InputError for a generated one). */
+export function folderFamily(name: string): FolderFamily {
+  const f = familyNamed(name);
+  if (f.source !== "folder") throw new InputError(`--family: '${name}' is generated, not read from files`);
+  return f;
+}
+
+/** Reads one instance file of a folder family. */
 export function loadInstanceFile(family: string, file: string): GeneratedInstance {
-  let text: string;
-  try {
-    text = readFileSync(file, "utf8");
-  } catch (e) {
-    throw new InputError(`${file}: cannot read (${(e as NodeJS.ErrnoException).code ?? String(e)})`);
-  }
-  if (family === "cnf") {
-    const cnf = parseDimacs(text, file);
-    return { problem: { kind: "cnf", cnf }, seed: "", meta: { file: basename(file), clauses: cnf.offsets.length - 1 } };
-  }
-  const ising = parseCouplingList(text, file);
-  return { problem: { kind: "ising", ising }, seed: "", meta: { file: basename(file), terms: ising.coefficients.length } };
+  return folderFamily(family).load(file);
 }
 
 /** Everything that identifies one instance of a study. */
@@ -53,6 +59,6 @@ export interface InstanceContext {
 
 /** Generates or loads the instance a context names. */
 export function materialise(ctx: InstanceContext): GeneratedInstance {
-  if (FOLDER_FAMILIES.has(ctx.family)) return loadInstanceFile(ctx.family, ctx.file);
-  return generatorFor(ctx.family).generate(ctx.masterSeed, ctx.params, ctx.n, ctx.index);
+  const f = familyNamed(ctx.family);
+  return f.source === "folder" ? f.load(ctx.file) : f.generate(ctx.masterSeed, ctx.params, ctx.n, ctx.index);
 }

@@ -8,7 +8,7 @@ import { InputError } from "../errors.js";
 import type { Ising } from "../model/ising.js";
 import { Rng, deriveSeed } from "../random.js";
 import { canonicalParams } from "./params.js";
-import type { Family, FamilyParams, GeneratedInstance } from "./types.js";
+import type { GeneratedFamily, FamilyParams, GeneratedInstance } from "./types.js";
 
 /** Coupling distributions of the `sk` family. */
 export type SkCouplings = "gauss" | "pm1";
@@ -17,8 +17,20 @@ export type SkCouplings = "gauss" | "pm1";
  * The `sk` family. Parameters: `couplings` ("gauss" | "pm1", default "gauss"). Terms come in the order
  * (0,1), (0,2), …, (0,n−1), (1,2), …; meta = { couplings, terms }.
  */
-export const skFamily: Family = {
+export const skFamily: GeneratedFamily = {
   name: "sk",
+  kind: "ising",
+  source: "generated",
+  description: "Sherrington–Kirkpatrick spin glass, J ~ N(0,1/n) or ±1/√n on every pair",
+  params: ["couplings"],
+  resolveParams(read) {
+    const couplings = read.text("couplings");
+    if (!["gauss", "pm1"].includes(couplings)) throw new InputError(`--couplings: '${couplings}' is not gauss or pm1`);
+    return { couplings };
+  },
+  checkSize: () => null,
+  flipSymmetric: () => true,
+  costShape: () => ({ kind: "ising", clausesPerVariable: 0, k: 0, termsAt: (n) => (n * (n - 1)) / 2, order: 2 }),
   generate(masterSeed: string, params: FamilyParams, n: number, index: number): GeneratedInstance {
     const couplings = String(params.couplings ?? "gauss");
     if (couplings !== "gauss" && couplings !== "pm1") {

@@ -14,6 +14,7 @@
  * the result is the exact integer count of violated clauses. For Ising models the error of each output is at
  * most about n·2^−53·Σ|J| (n rounding steps on values bounded by Σ|J|), far inside 10^−12 relative.
  */
+import { walshHadamard } from "./walsh.js";
 import { type Cnf } from "./cnf.js";
 import { type Ising } from "./ising.js";
 import { type Problem, sizeOf } from "./problem.js";
@@ -49,11 +50,11 @@ export function fillCostVector(problem: Problem, out: Float64Array): void {
   out.fill(0);
   if (problem.kind === "cnf") {
     const direct = cnfSpectrum(problem.cnf, out);
-    walshHadamardInPlace(out, n);
+    walshHadamard(out, n);
     if (direct.length > 0) addLongClauses(problem.cnf, direct, out);
   } else {
     isingSpectrum(problem.ising, out);
-    walshHadamardInPlace(out, n);
+    walshHadamard(out, n);
   }
 }
 
@@ -145,61 +146,5 @@ function isingSpectrum(model: Ising, f: Float64Array): void {
   }
 }
 
-/** Block of the transform done in cache before the wide levels: 2^12 doubles = 32 KiB (an L1 data cache). */
-const WHT_BLOCK_BITS = 12;
-
-/**
- * In-place unnormalised Walsh–Hadamard transform: a[z] ← Σ_S a[S]·(−1)^popcount(S & z) over a vector of length
- * 2^n. The transform is its own inverse up to a factor 2^n.
- * @param a - length 2^n.
- * @param n - number of bits.
- */
-export function walshHadamardInPlace(a: Float64Array, n: number): void {
-  const size = a.length;
-  if (size !== 2 ** n) throw new Error(`Walsh–Hadamard transform: length ${size} is not 2^${n}`);
-  const inner = Math.min(n, WHT_BLOCK_BITS);
-  const block = 2 ** inner;
-  // 1. The low levels inside cache-sized blocks.
-  for (let base = 0; base < size; base += block) {
-    for (let h = 1; h < block; h <<= 1) {
-      for (let i = base; i < base + block; i += h << 1) {
-        for (let j = i; j < i + h; j++) {
-          const x = a[j];
-          const y = a[j + h];
-          a[j] = x + y;
-          a[j + h] = x - y;
-        }
-      }
-    }
-  }
-  // 2. The wide levels two at a time (radix 4) to halve the passes over memory.
-  let h = block;
-  for (; h * 4 <= size; h *= 4) {
-    const h2 = 2 * h;
-    const h3 = 3 * h;
-    for (let i = 0; i < size; i += 4 * h) {
-      for (let j = i; j < i + h; j++) {
-        const a0 = a[j];
-        const a1 = a[j + h];
-        const a2 = a[j + h2];
-        const a3 = a[j + h3];
-        const s01 = a0 + a1;
-        const d01 = a0 - a1;
-        const s23 = a2 + a3;
-        const d23 = a2 - a3;
-        a[j] = s01 + s23;
-        a[j + h] = d01 + d23;
-        a[j + h2] = s01 - s23;
-        a[j + h3] = d01 - d23;
-      }
-    }
-  }
-  if (h < size) {
-    for (let j = 0; j < h; j++) {
-      const x = a[j];
-      const y = a[j + h];
-      a[j] = x + y;
-      a[j + h] = x - y;
-    }
-  }
-}
+/** The transform, re-exported under its former name for callers of this module. */
+export { walshHadamard as walshHadamardInPlace } from "./walsh.js";

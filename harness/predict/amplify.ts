@@ -7,6 +7,7 @@
  * Unit: one reversible trial run (one application of A or A†). Checking the measured outcome is one
  * evaluation of the cost function, a small part of one trial, and is not counted.
  */
+import type { Predictor } from "./types.js";
 
 /** Result of {@link amplifyTrial}; every field is a predictions.csv column. */
 export type AmplifiedTrial = {
@@ -175,4 +176,19 @@ function expectedRunsExtremes(thetaA: number, thetaB: number): { min: number; ma
   const thetaMin = Math.PI / (2 * (2 * mMin + 1));
   if (thetaMin >= thetaA && thetaMin <= thetaB) min = Math.min(min, 2 * mMin + 1);
   return { min, max };
+}
+
+/**
+ * Amplitude amplification of one randomised solver's trial, on the predictor registry: named
+ * `amplified-SOLVER`, computed from every measured cell of that solver.
+ */
+export function amplifiedPredictor(solver: string, description: string): Predictor {
+  return {
+    name: `amplified-${solver}`,
+    description,
+    options: [],
+    amplifies: solver,
+    appliesTo: () => null,
+    fromTrials: (r) => ({ ...amplifyTrial(r.p, r.pLow, r.pHigh, r.workPerTrial), run_length: r.runLength }),
+  };
 }

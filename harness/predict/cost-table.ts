@@ -3,8 +3,7 @@
  * cost-model.ts: resolved options, the `speedbound cost` table, and the seconds-per-query function the
  * comparison and crossover estimates use.
  */
-import type { StudySpec } from "../study.js";
-import { resolveCostModel } from "../resolve.js";
+import type { FamilyCostShape } from "../families/types.js";
 import {
   COST_MODEL_DEFAULTS,
   type CostModelOptions,
@@ -15,8 +14,18 @@ import {
   walkStepToffolis,
 } from "./cost-model.js";
 
+/** The cost-model settings of a study as the command line gave them (StudySpec.costModel). */
+export interface CostModelSettings {
+  readonly toffoliSeconds: number;
+  readonly factories: number;
+  readonly classicalParallelism: number;
+  readonly oracleToffolis: number | null;
+  readonly walkStepToffolis: number | null;
+  readonly annealStepToffolis: number | null;
+}
+
 /** The cost-model options of a study. */
-export function costModelOptions(c: StudySpec["costModel"]): CostModelOptions {
+export function costModelOptions(c: CostModelSettings): CostModelOptions {
   return {
     ...COST_MODEL_DEFAULTS,
     toffoliSeconds: c.toffoliSeconds,
@@ -28,19 +37,13 @@ export function costModelOptions(c: StudySpec["costModel"]): CostModelOptions {
   };
 }
 
-/** Rows of the `speedbound cost` table from the command-line options of the cost-model group. */
-export function costModelRows(argv: Readonly<Record<string, unknown>>): Array<{ quantity: string; value: string; source: string }> {
-  return describeCostModel(costModelOptions(resolveCostModel(argv)));
+/** Rows of the `speedbound cost` table from resolved cost-model options (the edge resolves the command line). */
+export function costModelRows(costModel: CostModelSettings): Array<{ quantity: string; value: string; source: string }> {
+  return describeCostModel(costModelOptions(costModel));
 }
 
-/** Size facts of a family at size n that the Toffoli counts need (mean clauses or terms of the instances). */
-export interface FamilyShape {
-  readonly kind: "ksat" | "ising";
-  readonly clausesPerVariable: number;
-  readonly k: number;
-  readonly termsAt: (n: number) => number;
-  readonly order: number;
-}
+/** Size facts of a family at size n that the Toffoli counts need (declared by each family: families/types.ts). */
+export type FamilyShape = FamilyCostShape;
 
 /**
  * For k-SAT the Metropolis update's local field is the sum over the ≈ m·k/n clauses holding the variable, so
@@ -50,7 +53,7 @@ export interface FamilyShape {
  * reversible solver step times the steps of one trial for the amplified solvers (their "queries" are trial runs).
  */
 export function secondsPerQuery(
-  spec: StudySpec,
+  spec: { readonly costModel: CostModelSettings },
   shape: FamilyShape,
   stepsPerTrial: (predictor: string, n: number) => number,
 ): (family: string, predictor: string, n: number) => number {

@@ -9,6 +9,7 @@
  * Angles: sin²θ = M/N. We compute θ = atan2(√M, √(N−M)), which keeps full relative precision for tiny
  * M/N (n up to ≈ 60) and near M = N, where asin(√(M/N)) loses digits.
  */
+import type { Predictor } from "./types.js";
 
 /** Angle θ of Grover's rotation, sin²θ = M/N, for N = 2^n and M = optima (0 ≤ M ≤ N). */
 export function groverTheta(n: number, optima: number): number {
@@ -260,3 +261,21 @@ function checkSpace(n: number, optima: number): void {
     throw new RangeError(`optima must be an integer in [0, 2^${n}], got ${optima}`);
   }
 }
+
+/** Grover search with the number of optima known, on the predictor registry. */
+export const groverPredictor: Predictor = {
+  name: "grover",
+  description: "Grover search with the number of optima M known (BBHT)",
+  options: [],
+  appliesTo: () => null,
+  fromTruth: (t) => groverKnown(t.n, t.degeneracy),
+};
+
+/** Grover search with an unknown number of optima (the BBHT exponential schedule), on the predictor registry. */
+export const groverUnknownPredictor: Predictor = {
+  name: "grover-unknown",
+  description: "Grover search with M unknown: BBHT's exponential schedule, expected queries exactly",
+  options: [],
+  appliesTo: () => null,
+  fromTruth: (t) => groverUnknown(t.n, t.degeneracy),
+};

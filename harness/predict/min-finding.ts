@@ -3,6 +3,7 @@
  * arXiv:quant-ph/9607014: repeated BBHT searches (arXiv:quant-ph/9605034) for a string cheaper than the
  * current threshold, the threshold moving to each string found.
  */
+import type { Predictor } from "./types.js";
 
 /** Result of {@link minFinding}; every field is a predictions.csv column. */
 export type MinFinding = {
@@ -43,3 +44,15 @@ export function minFinding(n: number): MinFinding {
     is_bound: true,
   };
 }
+
+/**
+ * Quantum minimum finding on the predictor registry. It answers the optimisation question: spin families, and
+ * CNF instances with no model (for a satisfiable formula, search for a model is Grover's question).
+ */
+export const minFindingPredictor: Predictor = {
+  name: "min-finding",
+  description: "quantum minimum finding (Dürr–Høyer): expected queries bound",
+  options: [],
+  appliesTo: () => null,
+  fromTruth: (t) => (t.kind === "cnf" && t.optimum === 0 ? null : minFinding(t.n)),
+};

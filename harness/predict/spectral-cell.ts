@@ -9,6 +9,7 @@ import { InputError } from "../errors.js";
 import { spectralPredict, DEFAULT_SPECTRAL_OPTIONS } from "./spectral.js";
 import { lanczosMaxN } from "./lanczos.js";
 import { hasFlipSymmetry } from "../model/ising.js";
+import type { Predictor } from "./types.js";
 
 /**
  * Largest n the spectral numerics accept for a problem: the Lanczos memory budget (2 GiB), which allows one
@@ -37,3 +38,20 @@ export function computeSpectral(problem: Problem, optimum: number | null, b: num
   const result = spectralPredict(problem, costs, best, { ...DEFAULT_SPECTRAL_OPTIONS, b, eta });
   return { ...result } as Record<string, number | string | boolean | null>;
 }
+
+/**
+ * The spectral method on the predictor registry: one worker cell per instance and filter strength b (a thin
+ * wrapper over {@link computeSpectral}; the numerics live in spectral.ts and lanczos.ts).
+ */
+export const spectralPredictor: Predictor = {
+  name: "spectral",
+  description: "two-stage spectral method (arXiv:2212.01513): exact Lanczos numerics of the filtered Hamiltonian",
+  options: ["spectral-b", "spectral-b-scan", "spectral-eta"],
+  appliesTo: () => null,
+  cell: {
+    param: "b",
+    params: (options) => [...(options["spectral-b"] as ReadonlyArray<number>)],
+    maxSize: (_kind, flipSymmetric) => Math.min(COST_VECTOR_MAX, lanczosMaxN(flipSymmetric ? "symmetric" : "all")),
+    run: (problem, input) => computeSpectral(problem, input.optimum, input.param, Number(input.options["spectral-eta"])),
+  },
+};

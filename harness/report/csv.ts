@@ -3,7 +3,7 @@
  * first appearance), empty cells for missing values, full double precision.
  */
 import { stringify } from "csv-stringify/sync";
-import { writeFileAtomic } from "../files.js";
+import { writeFileAtomic } from "../engine/files.js";
 
 type Row = object;
 

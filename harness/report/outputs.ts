@@ -3,8 +3,9 @@
  * paper outputs (sizes.csv, fits.csv, comparison.csv, table.tex, table.md, scaling-FAMILY.svg).
  */
 import { join } from "node:path";
-import { readJournal, type JournalRecord } from "../journal.js";
-import type { StudySpec } from "../study.js";
+import { readJournal, type JournalRecord } from "../engine/journal.js";
+import { OUT_FILES } from "../engine/output-folder.js";
+import type { StudySpec } from "../engine/study.js";
 import { buildTables, type Tables } from "./tables.js";
 import { writeCsv } from "./csv.js";
 import { writePaperOutputs, type PaperOutputs } from "./paper.js";
@@ -20,12 +21,12 @@ export const LEADING = {
 export async function writeOutputs(
   spec: StudySpec,
   out: string,
-  records: ReadonlyArray<JournalRecord> = readJournal(join(out, "journal.jsonl")).records,
+  records: ReadonlyArray<JournalRecord> = readJournal(join(out, OUT_FILES.journal)).records,
 ): Promise<{ tables: Tables; paper: PaperOutputs }> {
   const tables = buildTables(spec, records);
-  writeCsv(join(out, "instances.csv"), tables.instances, LEADING.instances);
-  writeCsv(join(out, "runs.csv"), tables.runs, LEADING.runs);
-  writeCsv(join(out, "predictions.csv"), tables.predictions, LEADING.predictions);
+  writeCsv(join(out, OUT_FILES.instances), tables.instances, LEADING.instances);
+  writeCsv(join(out, OUT_FILES.runs), tables.runs, LEADING.runs);
+  writeCsv(join(out, OUT_FILES.predictions), tables.predictions, LEADING.predictions);
   const paper = await writePaperOutputs(spec, out, tables);
   return { tables, paper };
 }

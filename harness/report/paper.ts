@@ -4,10 +4,10 @@
  * crossover estimates under the cost model), table.tex, table.md and scaling-FAMILY.svg.
  */
 import { join } from "node:path";
-import type { StudySpec } from "../study.js";
+import type { StudySpec } from "../engine/study.js";
 import type { Tables } from "./tables.js";
 import { writeCsv } from "./csv.js";
-import { writeFileAtomic } from "../files.js";
+import { writeFileAtomic } from "../engine/files.js";
 import {
   COMPARISON_COLUMNS,
   FIT_COLUMNS,
@@ -24,6 +24,8 @@ import { comparisonMarkdown } from "./markdown.js";
 import { comparisonLegend, comparisonTerminalTable } from "./terminal-table.js";
 import { scalingPlotSvg } from "./plot.js";
 import { secondsPerQuery, type FamilyShape } from "../predict/cost-table.js";
+import { familyNamed } from "../families/registry.js";
+import { OUT_FILES, scalingPlotFile } from "../engine/output-folder.js";
 
 /** The paper outputs, also returned for printing. */
 export interface PaperOutputs {
@@ -42,12 +44,12 @@ export async function writePaperOutputs(spec: StudySpec, out: string, tables: Ta
   const fits = fitScaling(tables.runs, tables.predictions, { ...options, fitFrom: spec.report.fitFrom });
   const perQuery = secondsPerQuery(spec, familyShape(spec, tables), (predictor, n) => stepsPerTrial(spec, sizes, predictor, n));
   const comparison = compareMethods(fits, perQuery, { parallelism: spec.costModel.classicalParallelism });
-  writeCsv(join(out, "sizes.csv"), sizes, SIZE_COLUMNS as string[]);
-  writeCsv(join(out, "fits.csv"), fits, FIT_COLUMNS as string[]);
-  writeCsv(join(out, "comparison.csv"), comparison, COMPARISON_COLUMNS as string[]);
-  writeFileAtomic(join(out, "table.tex"), comparisonLatex(comparison));
-  writeFileAtomic(join(out, "table.md"), comparisonMarkdown(comparison));
-  if (sizes.length > 0) writeFileAtomic(join(out, `scaling-${spec.family}.svg`), await scalingPlotSvg(sizes, fits, spec.family));
+  writeCsv(join(out, OUT_FILES.sizes), sizes, SIZE_COLUMNS as string[]);
+  writeCsv(join(out, OUT_FILES.fits), fits, FIT_COLUMNS as string[]);
+  writeCsv(join(out, OUT_FILES.comparison), comparison, COMPARISON_COLUMNS as string[]);
+  writeFileAtomic(join(out, OUT_FILES.latex), comparisonLatex(comparison));
+  writeFileAtomic(join(out, OUT_FILES.markdown), comparisonMarkdown(comparison));
+  if (sizes.length > 0) writeFileAtomic(join(out, scalingPlotFile(spec.family)), await scalingPlotSvg(sizes, fits, spec.family));
   return { sizes, fits, comparison };
 }
 
@@ -57,41 +59,9 @@ export function formatComparison(paper: PaperOutputs): string {
   return `${comparisonTerminalTable(paper.comparison)}\n${comparisonLegend(paper.comparison)}`;
 }
 
-/**
- * Size facts for the Toffoli counts: clauses per variable for CNF (the density, or the folder's mean), and the
- * number of terms at any n for spin families (the family's formula; for coupling files, the largest measured
- * size's mean scaled as n^order, since the crossover may lie beyond the measured range).
- */
+/** Size facts for the Toffoli counts, as the family declares them (families/*.ts `costShape`). */
 function familyShape(spec: StudySpec, tables: Tables): FamilyShape {
-  const rows = tables.instances;
-  const mean = (xs: number[]): number => (xs.length ? xs.reduce((a, b) => a + b, 0) / xs.length : 0);
-  if (spec.family === "ksat" || spec.family === "cnf") {
-    const density = spec.family === "ksat" ? Number(spec.familyParams.density) : mean(rows.map((r) => Number(r.clauses) / r.n));
-    const k = spec.family === "ksat" ? Number(spec.familyParams.k) : 3;
-    return { kind: "ksat", clausesPerVariable: density, k, termsAt: () => 0, order: 0 };
-  }
-  const binom = (n: number, p: number): number => {
-    let c = 1;
-    for (let i = 0; i < p; i++) c = (c * (n - i)) / (i + 1);
-    return c;
-  };
-  switch (spec.family) {
-    case "sk":
-      return { kind: "ising", clausesPerVariable: 0, k: 0, termsAt: (n) => binom(n, 2), order: 2 };
-    case "pspin": {
-      const p = Number(spec.familyParams.p);
-      return { kind: "ising", clausesPerVariable: 0, k: 0, termsAt: (n) => binom(n, p), order: p };
-    }
-    case "maxcut": {
-      const d = Number(spec.familyParams.degree);
-      return { kind: "ising", clausesPerVariable: 0, k: 0, termsAt: (n) => (n * d) / 2, order: 2 };
-    }
-    default: {
-      const largest = rows.reduce((m, r) => Math.max(m, r.n), 1);
-      const terms = mean(rows.filter((r) => r.n === largest).map((r) => Number(r.terms))) || 1;
-      return { kind: "ising", clausesPerVariable: 0, k: 0, termsAt: (n) => terms * (n / largest) ** 2, order: 2 };
-    }
-  }
+  return familyNamed(spec.family).costShape(spec.familyParams, tables.instances);
 }
 
 /**

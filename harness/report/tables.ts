@@ -3,14 +3,12 @@
  * predictors are evaluated here from the recorded ground truth and measured success probabilities: they
  * are pure functions of those, so they need no cells of their own and change when the journal does.
  */
-import type { JournalRecord, RunRecord, SpectralRecord, TruthRecord } from "../journal.js";
-import type { StudySpec } from "../study.js";
+import type { JournalRecord, RunRecord, SpectralRecord, TruthRecord } from "../engine/journal.js";
+import type { StudySpec } from "../engine/study.js";
 import type { InstanceRow, PredictionRow, RunRow } from "../types.js";
 import { ttsFromCounts } from "../stats/tts.js";
-import { groverKnown, groverUnknown } from "../predict/grover.js";
-import { minFinding } from "../predict/min-finding.js";
-import { amplifyTrial } from "../predict/amplify.js";
-import { cutValue } from "../families/maxcut.js";
+import { PREDICTORS, predictorNamed } from "../predict/registry.js";
+import { familyNamed } from "../families/registry.js";
 
 /** The three per-observation tables. */
 export interface Tables {
@@ -41,8 +39,7 @@ export function buildTables(spec: StudySpec, records: ReadonlyArray<JournalRecor
     optimum: t.optimum,
     degeneracy: t.degeneracy,
     satisfiable: t.optimum === null || !isCnf(spec) ? null : t.optimum === 0,
-    // MaxCut: the optimum energy Σ_edges s_i s_j as the largest cut, (edges − E)/2.
-    ...(spec.family === "maxcut" && t.optimum !== null ? { max_cut: cutValue(Number(t.meta.edges), t.optimum) } : {}),
+    ...(familyNamed(spec.family).describe?.(t.meta, t.optimum) ?? {}),
     mean_cost: t.mean,
     status: t.status,
   }));
@@ -63,28 +60,27 @@ export function buildTables(spec: StudySpec, records: ReadonlyArray<JournalRecor
   for (const t of truths) {
     if (t.status !== "ok" || t.optimum === null || t.degeneracy === null) continue;
     const base = { family: spec.family, n: t.n, instance: t.index };
-    const satisfiable = isCnf(spec) && t.optimum === 0;
-    for (const predictor of spec.predictors) {
-      if (predictor === "grover") predictions.push(prediction(base, predictor, groverKnown(t.n, t.degeneracy)));
-      if (predictor === "grover-unknown") predictions.push(prediction(base, predictor, groverUnknown(t.n, t.degeneracy)));
-      // Minimum finding answers the optimisation question: spin families, and CNF instances with no model.
-      if (predictor === "min-finding" && !satisfiable) {
-        predictions.push(prediction(base, predictor, minFinding(t.n)));
-      }
+    const view = { n: t.n, kind: familyNamed(spec.family).kind, optimum: t.optimum, degeneracy: t.degeneracy };
+    for (const name of spec.predictors) {
+      const parts = predictorNamed(name).fromTruth?.(view) ?? null;
+      if (parts !== null) predictions.push(prediction(base, name, parts));
     }
   }
   for (const r of runsRec) {
-    const predictor = `amplified-${r.solver}`;
-    if (!spec.predictors.includes(predictor) || r.status === "error" || r.trials === 0) continue;
+    const predictor = PREDICTORS.find((p) => p.amplifies === r.solver && p.fromTrials !== undefined && spec.predictors.includes(p.name));
+    if (!predictor || r.status === "error" || r.trials === 0) continue;
     const row = runRow(spec, r);
-    const parts = amplifyTrial(row.p ?? 0, row.p_low ?? undefined, row.p_high ?? undefined, row.work_per_trial ?? undefined);
-    predictions.push({ ...prediction({ family: spec.family, n: r.n, instance: r.index }, predictor, parts), run_length: r.run_length });
+    const parts = predictor.fromTrials!({
+      n: r.n, solver: r.solver, runLength: r.run_length, p: row.p ?? 0, pLow: row.p_low ?? undefined, pHigh: row.p_high ?? undefined,
+      workPerTrial: row.work_per_trial ?? undefined,
+    });
+    predictions.push(prediction({ family: spec.family, n: r.n, instance: r.index }, predictor.name, parts));
   }
   for (const s of spectralRec) {
     const truth = truthOf.get(`${s.n}|${s.index}`);
     if (!truth) continue;
     predictions.push({
-      family: spec.family, n: s.n, instance: s.index, predictor: "spectral", status: s.status,
+      family: spec.family, n: s.n, instance: s.index, predictor: s.predictor ?? "spectral", status: s.status,
       queries: null, queries_log2: null, queries_low: null, queries_high: null,
       ...s.row, wall_ns: s.wall_ns, message: s.message,
     } as PredictionRow);
@@ -112,7 +108,7 @@ function markBestB(predictions: PredictionRow[]): void {
 }
 
 function isCnf(spec: StudySpec): boolean {
-  return spec.family === "ksat" || spec.family === "cnf";
+  return familyNamed(spec.family).kind === "cnf";
 }
 
 function runRow(spec: StudySpec, r: RunRecord): RunRow {

@@ -12,7 +12,8 @@
 import { deriveSeed, Rng } from "../../harness/random.js";
 import { cnfFromClauses, type Cnf } from "../../harness/model/cnf.js";
 import { isingFromTerms, type Ising } from "../../harness/model/ising.js";
-import { trialKey, trialRng, walkTrials } from "../../solvers/walk.js";
+import { walkTrials } from "../../solvers/walk.js";
+import { trialKey, trialRng } from "../../solvers/trial-seeds.js";
 import { annealTrials, defaultBetaRange } from "../../solvers/anneal.js";
 
 /** Uniform random k-SAT: k distinct variables a clause, random signs (drawn here so the bench stands alone). */

@@ -4,10 +4,10 @@
  * 30 ms or more, issue 2).
  */
 import { availableParallelism } from "node:os";
-import { WorkerPool } from "../../harness/pool.js";
+import { WorkerPool } from "../../harness/engine/pool.js";
 import { ksatFamily } from "../../harness/families/ksat.js";
 import { mergeExact, planSlices } from "../../solvers/exhaustive.js";
-import type { TruthSliceAnswer } from "../../harness/tasks.js";
+import type { TruthSliceAnswer } from "../../harness/engine/tasks.js";
 
 const PARAMS = { k: 3, density: 4.26, planted: false, satisfiable: false, unique: false };
 
@@ -16,9 +16,9 @@ async function timeOnce(pool: WorkerPool, n: number, index: number): Promise<{ s
   const ctx = { family: "ksat", params: PARAMS, masterSeed: "bench", n, index, file: "" };
   const stop = new Int32Array(new SharedArrayBuffer(8));
   // Warm the workers' instance cache and JIT on the same instance first: we time the enumeration, not start-up.
-  await Promise.all(planSlices(problem, pool.size).map((slice) => pool.run<TruthSliceAnswer>({ type: "truth-slice", ctx, slice, stop })));
+  await Promise.all(planSlices(problem, pool.size).map((slice) => pool.run<TruthSliceAnswer>({ type: "truth-slice", ctx, solver: "exhaustive", part: slice, stop })));
   const start = process.hrtime.bigint();
-  const answers = await Promise.all(planSlices(problem, pool.size).map((slice) => pool.run<TruthSliceAnswer>({ type: "truth-slice", ctx, slice, stop })));
+  const answers = await Promise.all(planSlices(problem, pool.size).map((slice) => pool.run<TruthSliceAnswer>({ type: "truth-slice", ctx, solver: "exhaustive", part: slice, stop })));
   const seconds = Number(process.hrtime.bigint() - start) / 1e9;
   return { seconds, assignments: mergeExact(answers.map((a) => a.result), 0.5).assignments };
 }

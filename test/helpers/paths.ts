@@ -10,4 +10,4 @@ export const SATLIB_DIR = resolve(REPO_ROOT, "../shared/datasets/satlib");
 /** True when the SATLIB folder is present; tests that need it skip with a message otherwise. */
 export const HAVE_SATLIB = existsSync(SATLIB_DIR);
 /** The compiled CLI entry (built by `npm test`'s pretest step). */
-export const CLI = resolve(REPO_ROOT, "dist/harness/cli.js");
+export const CLI = resolve(REPO_ROOT, "dist/harness/cli/cli.js");

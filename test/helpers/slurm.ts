@@ -2,7 +2,7 @@
 import { spawnSync } from "node:child_process";
 import { chmodSync, existsSync, readdirSync, readFileSync, statSync, writeFileSync } from "node:fs";
 import { join } from "node:path";
-import { SLURM_FILES, type SlurmScripts } from "../../harness/slurm.js";
+import { SLURM_FILES, type SlurmScripts } from "../../harness/cluster/slurm.js";
 
 /** Folder where .ci/slurm-setup.sh keeps its daemons' logs (same variable and default as the script). */
 const SETUP_STATE = process.env.SB_SLURM_STATE ?? "/var/spool/speedbound-slurm";

@@ -12,7 +12,7 @@ import { REPO_ROOT as HELPER_ROOT } from "./paths.js";
 
 // paths.ts resolves the root from its own place, which is dist/ when this runs compiled (test/stress/quick-commands).
 const REPO_ROOT = existsSync(join(HELPER_ROOT, "package.json")) ? HELPER_ROOT : dirname(HELPER_ROOT);
-const CLI = join(REPO_ROOT, "dist/harness/cli.js");
+const CLI = join(REPO_ROOT, "dist/harness/cli/cli.js");
 
 /** One kind of quick command. */
 export type StressKind = "solve" | "run" | "spectral" | "pool";
@@ -46,7 +46,7 @@ function tinyCnf(): string {
  * issue 14 without the rest of a command, at delays spread over the workers' loading time.
  */
 function poolCycleScript(delayMs: number): string {
-  const pool = JSON.stringify(join(REPO_ROOT, "dist/harness/pool.js"));
+  const pool = JSON.stringify(join(REPO_ROOT, "dist/harness/engine/pool.js"));
   return `import(${pool}).then(({ WorkerPool }) => { const p = new WorkerPool(2); setTimeout(() => p.close().then(() => process.exit(0)), ${delayMs}); });`;
 }
 
@@ -83,7 +83,7 @@ export async function stressQuickCommands(count: number, parallel = 2, timeoutMs
       const args =
         kind === "solve" ? [CLI, "solve", file, "--json", "--workers", "2"]
         : kind === "spectral" ? [CLI, "spectral", file, "--json"]
-        : kind === "run" ? [CLI, "run", "--n", "6", "--instances", "1", "--trials", "4", "--sweeps", "10", "--predict", "grover", "--seed", `s${i}`, "--workers", "2", "--out", out]
+        : kind === "run" ? [CLI, "run", "--n", "6", "--instances", "1", "--trials", "4", "--anneal-sweeps", "10", "--predict", "grover", "--seed", `s${i}`, "--workers", "2", "--out", out]
         : ["--input-type=module", "-e", poolCycleScript((i * 37) % 200)];
       const r = await runOnce(args, timeoutMs);
       byKind[kind]++;

@@ -13,7 +13,7 @@ import { fileURLToPath } from "node:url";
 
 const mode = process.argv[2] === "esm" ? "esm" : "shim";
 const count = Number(process.argv[3] ?? 300);
-const entry = fileURLToPath(new URL(mode === "esm" ? "../../harness/worker.js" : "../../harness/worker-entry.cjs", import.meta.url));
+const entry = fileURLToPath(new URL(mode === "esm" ? "../../harness/engine/worker.js" : "../../harness/engine/worker-entry.cjs", import.meta.url));
 const piscina = JSON.stringify(fileURLToPath(import.meta.resolve("piscina")));
 let abnormal = 0;
 for (let i = 0; i < count; i++) {

@@ -1,0 +1,52 @@
+/** `speedbound run`: resolve the study, run (or resume) it, write tables and manifest, print the comparison. */
+import { join, resolve } from "node:path";
+import { EXIT } from "../../errors.js";
+import { runStudy } from "../../engine/run.js";
+import type { RunSummary } from "../../engine/run-summary.js";
+import { OUT_FILES } from "../../engine/output-folder.js";
+import { parseDuration, parseShard, resolveStudy } from "../resolve.js";
+import { sizeRangeNote } from "../argv-guard.js";
+import { STREAM_SCHEME } from "../../engine/build-info.js";
+import { consoleProgress } from "../progress.js";
+import { writeOutputs } from "../../report/outputs.js";
+import { buildManifest } from "../../engine/manifest.js";
+import { writeFileAtomic } from "../../engine/files.js";
+import { resolvedOptions } from "../options.js";
+import { formatComparison } from "../../report/paper.js";
+import { type Args } from "./shared.js";
+import { workersOf } from "./shared.js";
+
+/** `speedbound run`: resolve the study, run (or resume) it, write tables and manifest, print the comparison. */
+export async function run(argv: Args, rawArgs: ReadonlyArray<string>): Promise<number> {
+  const spec = resolveStudy(argv);
+  const note = sizeRangeNote(argv.n, spec.sizes);
+  if (note) process.stderr.write(`speedbound: note: ${note}\n`);
+  const out = resolve(String(argv.out ?? "results/latest"));
+  const workers = workersOf(argv);
+  const shard = argv.shard === undefined ? null : parseShard(String(argv.shard));
+  const budgetMs = argv.budget === undefined ? null : parseDuration(String(argv.budget), "--budget");
+  const cellLimitMs = argv["cell-limit"] === undefined ? null : parseDuration(String(argv["cell-limit"]), "--cell-limit");
+  const started = new Date();
+  const summary = await runStudy(spec, { out, workers, budgetMs, cellLimitMs, shard, progress: consoleProgress(), graceMs: 10_000 });
+  if (summary.tornJournalLine) process.stderr.write(`speedbound: warning: the journal's last line was torn (a killed run) and was dropped\n`);
+  const { paper } = await writeOutputs(spec, out);
+  writeFileAtomic(join(out, OUT_FILES.manifest), JSON.stringify(buildManifest({ argv: rawArgs, spec, workers, shard, started, ended: new Date(), summary, extra: { options: resolvedOptions(argv, "run"), budget_ms: budgetMs, cell_limit_ms: cellLimitMs, stream_scheme: STREAM_SCHEME } }), null, 2) + "\n");
+  process.stdout.write(formatComparison(paper) + "\n");
+  process.stdout.write(summaryLine(summary, out) + "\n");
+  if (summary.interrupted === "SIGINT") return EXIT.interrupted;
+  if (summary.interrupted === "SIGTERM") return EXIT.terminated;
+  return summary.errors > 0 ? EXIT.failures : EXIT.ok;
+}
+
+function summaryLine(s: RunSummary, out: string): string {
+  const parts = [
+    `${s.cellsDone} cells run`,
+    s.cellsResumed ? `${s.cellsResumed} resumed from the journal` : "",
+    s.censored ? `${s.censored} censored by limits` : "",
+    s.errors ? `${s.errors} ERRORS (see runs.csv 'message')` : "",
+    s.skipped ? `${s.skipped} skipped (budget or signal)` : "",
+    `complete sizes: ${s.completeSizes.join(",") || "none"}`,
+    s.incompleteSizes.length ? `incomplete: ${s.incompleteSizes.join(",")}` : "",
+  ].filter((x) => x !== "");
+  return `speedbound: ${parts.join("; ")}\nspeedbound: tables in ${out}`;
+}

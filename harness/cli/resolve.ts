@@ -1,0 +1,273 @@
+/**
+ * Validation at the edge: turns parsed command-line values into a frozen {@link StudySpec}. Every problem
+ * becomes an InputError naming the option and the value (exit code 2).
+ */
+import { existsSync, readdirSync, statSync } from "node:fs";
+import { join, resolve } from "node:path";
+import { InputError } from "../errors.js";
+import { familyNamed, folderFamily } from "../families/registry.js";
+import type { Family, FamilyParams, ParamReader } from "../families/types.js";
+import { COOLING_INTERNAL, COOLING_LAWS, optionSpec, type OptionSpec } from "./options.js";
+import type { StudySpec } from "../engine/study.js";
+import { sizeOf } from "../model/problem.js";
+import { PREDICTOR_NAMES, predictorNamed } from "../predict/registry.js";
+import { SOLVER_NAMES, groundTruthSolver, trialsSolverNamed } from "../../solvers/registry.js";
+
+type Argv = Readonly<Record<string, unknown>>;
+
+/** Parses `FROM:TO[:STEP]` (or a single size) into the list of sizes. */
+export function parseSizeRange(text: string, option = "--n"): number[] {
+  const parts = String(text).split(":");
+  if (parts.length < 1 || parts.length > 3 || parts.some((p) => !/^\d+$/.test(p.trim()))) {
+    throw new InputError(`${option}: '${text}' is not FROM:TO[:STEP] with whole numbers`);
+  }
+  const [from, to = from, step = 1] = parts.map((p) => Number(p));
+  if (from < 1) throw new InputError(`${option}: sizes start at 1, got ${from}`);
+  if (to < from) throw new InputError(`${option}: range ${text} runs backwards (TO ${to} < FROM ${from})`);
+  if (step < 1) throw new InputError(`${option}: step must be at least 1, got ${step}`);
+  const out: number[] = [];
+  for (let n = from; n <= to; n += step) out.push(n);
+  return out;
+}
+
+/** Parses a duration such as 90s, 10m, 6h, 1d or a plain number of seconds into milliseconds. */
+export function parseDuration(text: string, option: string): number {
+  const m = /^(\d+(?:\.\d+)?)\s*(ms|s|m|h|d)?$/.exec(String(text).trim());
+  if (!m) throw new InputError(`${option}: '${text}' is not a duration (e.g. 90s, 10m, 6h)`);
+  const scale = { ms: 1, s: 1000, m: 60_000, h: 3_600_000, d: 86_400_000 }[(m[2] ?? "s") as "ms" | "s" | "m" | "h" | "d"];
+  const ms = Number(m[1]) * scale;
+  if (!(ms > 0)) throw new InputError(`${option}: duration must be positive, got '${text}'`);
+  return ms;
+}
+
+/** Parses `K/N` for --shard. */
+export function parseShard(text: string): { k: number; count: number } {
+  const m = /^(\d+)\/(\d+)$/.exec(String(text).trim());
+  if (!m) throw new InputError(`--shard: '${text}' is not K/N (e.g. 2/5)`);
+  const k = Number(m[1]);
+  const count = Number(m[2]);
+  if (count < 1 || k < 1 || k > count) throw new InputError(`--shard: need 1 ≤ K ≤ N, got ${text}`);
+  return { k, count };
+}
+
+function spec(name: string): OptionSpec {
+  return optionSpec(name);
+}
+
+/** Reads a numeric option with its declared range. */
+export function numberOption(argv: Argv, name: string): number | null {
+  const raw = argv[name];
+  const decl = spec(name);
+  if (raw === undefined || raw === null || raw === "") return decl.default === undefined ? null : Number(decl.default);
+  const value = typeof raw === "number" ? raw : Number(String(raw).trim());
+  if (!Number.isFinite(value)) throw new InputError(`--${name}: '${String(raw)}' is not a number`);
+  if (decl.type === "integer" && !Number.isInteger(value)) throw new InputError(`--${name}: '${String(raw)}' is not a whole number`);
+  if (decl.min !== undefined && value < decl.min) throw new InputError(`--${name}: ${value} is below the minimum ${decl.min}`);
+  if (decl.max !== undefined && value > decl.max) throw new InputError(`--${name}: ${value} is above the maximum ${decl.max}`);
+  return value;
+}
+
+function listOption(argv: Argv, name: string, allowed: ReadonlyArray<string>): string[] {
+  const raw = argv[name] ?? spec(name).default ?? "";
+  const items = String(raw).split(",").map((s) => s.trim()).filter((s) => s !== "");
+  for (const item of items) {
+    if (!allowed.includes(item)) throw new InputError(`--${name}: unknown value '${item}' (choose from ${allowed.join(", ")})`);
+  }
+  return [...new Set(items)];
+}
+
+function numberList(text: string, option: string): number[] {
+  const items = String(text).split(",").map((s) => s.trim()).filter((s) => s !== "");
+  if (items.length === 0) throw new InputError(`${option}: empty list`);
+  return items.map((s) => {
+    const v = Number(s);
+    if (!Number.isFinite(v) || v <= 0) throw new InputError(`${option}: '${s}' is not a positive number`);
+    return v;
+  });
+}
+
+/** The option table as a family sees it (values range-checked against their declarations). */
+export function paramReader(argv: Argv): ParamReader {
+  return {
+    number: (option) => numberOption(argv, option) as number,
+    given: (option) => argv[option] !== undefined,
+    flag: (option) => argv[option] === true,
+    text: (option) => String(argv[option] ?? spec(option).default ?? ""),
+  };
+}
+
+/** Family parameters that determine instances, resolved with defaults (these are hashed into seeds). */
+export function resolveFamilyParams(argv: Argv, family: string): FamilyParams {
+  return familyNamed(family).resolveParams(paramReader(argv));
+}
+
+/**
+ * Every size limit of a study, checked once here at the edge (exit code 2): what the family can draw, what
+ * the ground-truth solver can enumerate, and what each predictor's numerics can hold.
+ */
+export function checkLimits(
+  family: Family,
+  params: FamilyParams,
+  sizes: ReadonlyArray<number>,
+  predictors: ReadonlyArray<string>,
+  folderFiles: ReadonlyArray<{ readonly file: string; readonly n: number }> | null,
+): void {
+  for (const n of sizes) {
+    const why = family.checkSize(n, params);
+    if (why !== null) throw new InputError(why);
+  }
+  const largest = sizes[sizes.length - 1];
+  const symmetric = family.flipSymmetric(params);
+  const limit = groundTruthSolver(family.kind, symmetric, largest).maxSize(family.kind, symmetric);
+  if (largest > limit) {
+    // A folder study names the (first) file that is too large, so the user knows which one to drop.
+    const where = folderFiles ? `--from: ${folderFiles.find((f) => f.n === largest)?.file}: n = ${largest}` : `--n: size ${largest}`;
+    throw new InputError(`${where} is beyond the exact-enumeration limit of ${limit} for this family (ground truth needs all 2^n configurations)`);
+  }
+  for (const name of predictors) {
+    const cell = predictorNamed(name).cell;
+    if (!cell) continue;
+    const max = cell.maxSize(family.kind, symmetric);
+    if (largest > max) throw new InputError(`--predict: ${name} needs n ≤ ${max} (state vectors within 2 GiB), but --n reaches ${largest}`);
+  }
+}
+
+/** Lists a folder's instance files (sorted) for the cnf / ising families, with their sizes. */
+export function listInstanceFolder(family: string, from: unknown): Array<{ file: string; n: number }> {
+  const reader = folderFamily(family);
+  if (from === undefined || from === "") throw new InputError(`--from: family '${family}' reads a folder of files; give --from DIR`);
+  const dir = resolve(String(from));
+  if (!existsSync(dir)) throw new InputError(`--from: folder '${String(from)}' does not exist`);
+  if (!statSync(dir).isDirectory()) throw new InputError(`--from: '${String(from)}' is not a folder`);
+  const names = readdirSync(dir).filter((f) => reader.fileExtensions.test(f)).sort();
+  if (names.length === 0) {
+    throw new InputError(`--from: folder '${String(from)}' has no ${reader.fileWords} files`);
+  }
+  return names.map((name) => {
+    const file = join(dir, name);
+    return { file, n: sizeOf(reader.load(file).problem) };
+  });
+}
+
+/** Turns parsed options into a frozen study spec, validating everything. */
+export function resolveStudy(argv: Argv): StudySpec {
+  const family = String(argv.family ?? spec("family").default);
+  const fam = familyNamed(family);
+  const folder = fam.source === "folder";
+  const files = folder ? listInstanceFolder(family, argv.from) : [];
+  const sizes = folder ? [...new Set(files.map((f) => f.n))].sort((a, b) => a - b) : parseSizeRange(String(argv.n ?? spec("n").default));
+  const familyParams = fam.resolveParams(paramReader(argv));
+  const target = { family, kind: fam.kind };
+  const solvers = listOption(argv, "solvers", SOLVER_NAMES).filter((s) => s !== groundTruthSolver(fam.kind, false, 0).name);
+  for (const name of [...solvers]) {
+    const why = trialsSolverNamed(name).appliesTo(target);
+    if (why === null) continue;
+    if (argv.solvers !== undefined) throw new InputError(`--solvers: ${why}`);
+    solvers.splice(solvers.indexOf(name), 1); // the default list names every solver
+  }
+  const predictors = listOption(argv, "predict", PREDICTOR_NAMES);
+  for (const name of [...predictors]) {
+    const p = predictorNamed(name);
+    const why = p.appliesTo(target) ?? (p.amplifies !== undefined && !solvers.includes(p.amplifies) ? `${name} needs the ${p.amplifies} solver in --solvers` : null);
+    if (why === null) continue;
+    if (argv.predict !== undefined) throw new InputError(`--predict: ${why}`);
+    predictors.splice(predictors.indexOf(name), 1);
+  }
+  checkLimits(fam, familyParams, sizes, predictors, folder ? files : null);
+  const walkFlipsText = String(argv["walk-flips"] ?? spec("walk-flips").default);
+  const wf = /^(\d+(?:\.\d+)?)n$/.exec(walkFlipsText);
+  if (!wf) throw new InputError(`--walk-flips: '${walkFlipsText}' is not of the form Kn (e.g. 3n)`);
+  const walkFlipsPerVariable = Number(wf[1]);
+  if (!(walkFlipsPerVariable > 0)) throw new InputError(`--walk-flips: must be positive, got '${walkFlipsText}'`);
+  const sweeps = numberList(String(argv["anneal-sweeps"] ?? spec("anneal-sweeps").default), "--anneal-sweeps").map((s) => {
+    if (!Number.isInteger(s)) throw new InputError(`--anneal-sweeps: '${s}' is not a whole number`);
+    return s;
+  });
+  const cooling = String(argv["anneal-cooling"] ?? spec("anneal-cooling").default);
+  const schedule = COOLING_INTERNAL[cooling];
+  if (schedule === undefined) throw new InputError(`--anneal-cooling: '${cooling}' is not ${COOLING_LAWS.join(" or ")}`);
+  let beta: [number, number] | null = null;
+  if (argv["anneal-temperature"] !== undefined && argv["anneal-beta"] !== undefined) {
+    throw new InputError(`--anneal-temperature: give the range once (not also as --anneal-beta/--beta)`);
+  }
+  if (argv["anneal-temperature"] !== undefined) {
+    const text = String(argv["anneal-temperature"]);
+    const parts = text.split(":").map(Number);
+    if (parts.length !== 2 || !parts.every((x) => Number.isFinite(x) && x > 0) || parts[1] > parts[0]) {
+      throw new InputError(`--anneal-temperature: '${text}' is not HOT:COLD with HOT ≥ COLD > 0 (hot end first)`);
+    }
+    beta = [1 / parts[0], 1 / parts[1]];
+  }
+  if (argv["anneal-beta"] !== undefined) {
+    const parts = String(argv["anneal-beta"]).split(":").map(Number);
+    if (parts.length !== 2 || !parts.every((x) => Number.isFinite(x) && x > 0) || parts[1] < parts[0]) {
+      throw new InputError(`--anneal-beta: '${String(argv["anneal-beta"])}' is not START:END with 0 < START ≤ END`);
+    }
+    beta = [parts[0], parts[1]];
+  }
+  const bValues = resolveBValues(argv);
+  const study: StudySpec = {
+    family,
+    familyParams,
+    sizes,
+    instances: folder ? 0 : (numberOption(argv, "instances") as number),
+    seed: String(argv.seed ?? spec("seed").default),
+    files: files.map((f) => ({ file: f.file, n: f.n })),
+    solvers,
+    trials: numberOption(argv, "trials") as number,
+    walkFlipsPerVariable,
+    sweeps,
+    schedule,
+    beta,
+    predictors,
+    spectral: { bValues, eta: numberOption(argv, "spectral-eta") as number },
+    costModel: resolveCostModel(argv),
+    report: { fitFrom: optionalNumber(argv, "fit-from"), resamples: numberOption(argv, "resamples") as number },
+  };
+  return deepFreeze(study);
+}
+
+/**
+ * The spectral filter strengths: `--spectral-b-scan FROM:TO:STEP` when given (it overrides `--spectral-b`), else
+ * `--spectral-b`. Used by `run` (one cell per b) and `spectral` (one result per b).
+ */
+export function resolveBValues(argv: Argv): number[] {
+  if (argv["spectral-b-scan"] === undefined) return [numberOption(argv, "spectral-b") as number];
+  const text = String(argv["spectral-b-scan"]);
+  const parts = text.split(":").map((p) => (p.trim() === "" ? NaN : Number(p)));
+  if (parts.length !== 3 || !parts.every(Number.isFinite) || parts[2] <= 0 || parts[1] < parts[0] || parts[0] < 0) {
+    throw new InputError(`--spectral-b-scan: '${text}' is not FROM:TO:STEP with 0 ≤ FROM ≤ TO and STEP > 0`);
+  }
+  const values: number[] = [];
+  for (let i = 0; parts[0] + i * parts[2] <= parts[1] + 1e-12; i++) {
+    values.push(Number((parts[0] + i * parts[2]).toPrecision(12)));
+    if (values.length > 10_000) throw new InputError(`--spectral-b-scan: '${text}' gives more than 10000 values of b`);
+  }
+  return values;
+}
+
+/** A numeric option that has no default: null when not given. */
+function optionalNumber(argv: Argv, name: string): number | null {
+  return argv[name] === undefined ? null : numberOption(argv, name);
+}
+
+/** The cost-model options (group "cost model"), resolved with their defaults. */
+export function resolveCostModel(argv: Argv): StudySpec["costModel"] {
+  return {
+    // Division (not × 1e-6) so the default 170 µs gives exactly the literal 170e-6 the cost model knows as its default.
+    toffoliSeconds: (numberOption(argv, "toffoli-us") as number) / 1e6,
+    factories: numberOption(argv, "factories") as number,
+    classicalParallelism: numberOption(argv, "classical-parallelism") as number,
+    oracleToffolis: optionalNumber(argv, "oracle-toffolis"),
+    walkStepToffolis: optionalNumber(argv, "walk-step-toffolis"),
+    annealStepToffolis: optionalNumber(argv, "anneal-step-toffolis"),
+  };
+}
+
+function deepFreeze<T>(o: T): T {
+  if (o && typeof o === "object") {
+    for (const v of Object.values(o as object)) deepFreeze(v);
+    Object.freeze(o);
+  }
+  return o;
+}
