@@ -29,8 +29,13 @@ export interface RunRow {
   run_length: number | null;
   status: CellStatus;
   wall_ns: number;
-  /** Elementary work: assignments for exhaustive, flips for walk, flip attempts for anneal. */
+  /**
+   * Elementary work really done: assignments evaluated for exhaustive (pruned ones not counted; older journals:
+   * assignments covered), flips for walk, flip attempts for anneal.
+   */
   work: number;
+  /** Fixed per-cell cost (the same call with zero-length work), ns; null when not measured. */
+  floor_ns: number | null;
   trials: number | null;
   successes: number | null;
   /** Per-trial success probability and its Wilson 95% interval. */

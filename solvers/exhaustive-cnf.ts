@@ -133,8 +133,8 @@ export function exhaustiveCnfSlice(
   let t = 0;
   for (;;) {
     const done = runPass(k, t, maxSkipLevel, stop);
-    if (!done) return { optimum: k.best, degeneracy: k.count, assignments: k.covered, complete: false };
-    if (k.best <= t) return { optimum: k.best, degeneracy: k.count, assignments: sliceSize, complete: true };
+    if (!done) return { optimum: k.best, degeneracy: k.count, assignments: k.covered, evaluated: k.evaluated, complete: false };
+    if (k.best <= t) return { optimum: k.best, degeneracy: k.count, assignments: sliceSize, evaluated: k.evaluated, complete: true };
     t = t === 0 ? Math.max(1, walksatBound(k.lsStart, k.lsLits, k.empties, 1)) : 2 * t;
   }
 }
@@ -191,6 +191,8 @@ class Kernel {
   best = Infinity;
   count = 0;
   covered = 0;
+  /** Assignments evaluated over all passes (lanes of evaluated blocks): the work pruning leaves. */
+  evaluated = 0;
 }
 
 /** 1. Splits clauses into lane and high parts, builds masks, occurrence lists and initial counters. */
@@ -419,6 +421,7 @@ function runPass(k: Kernel, t: number, maxSkipLevel: number, stop: StopFlag): bo
   let d = empties;
   dLev[high] = empties;
   let polls = 0;
+  let evaluatedBlocks = 0;
   for (;;) {
     // Descend while the node at level q is within the bound.
     while (q > 0 && (d <= bound || q > maxSkipLevel)) {
@@ -429,12 +432,14 @@ function runPass(k: Kernel, t: number, maxSkipLevel: number, stop: StopFlag): bo
     if (d <= bound) {
       k.base = d;
       bound = evalBlock(k, bound);
+      evaluatedBlocks++;
     }
     // The node at level q is finished (evaluated or skipped): go to the next one in Gray order.
     i += 1 << q;
     if (i >= total) break;
     if (++polls % POLL_NODES === 0 && stop !== null && Atomics.load(stop, 0) !== 0) {
       k.covered = i * lanes;
+      k.evaluated += evaluatedBlocks * lanes;
       return false;
     }
     const p = 31 - Math.clz32(i & -i);
@@ -465,6 +470,7 @@ function runPass(k: Kernel, t: number, maxSkipLevel: number, stop: StopFlag): bo
     dLev[p] = d;
   }
   k.covered = total * lanes;
+  k.evaluated += evaluatedBlocks * lanes;
   return true;
 }
 

@@ -132,6 +132,7 @@ export function exhaustiveSpinSlice(
     optimum: raw.visited > 0 ? raw.best : Infinity,
     degeneracy: raw.count * factor,
     assignments: raw.visited * factor,
+    evaluated: raw.visited,
     complete: raw.complete,
   };
 }

@@ -64,13 +64,15 @@ export function mergeExact(results: ReadonlyArray<ExactResult>, tolerance: numbe
   for (const r of results) if (r.optimum < optimum) optimum = r.optimum;
   let degeneracy = 0;
   let assignments = 0;
+  let evaluated = 0;
   let complete = true;
   for (const r of results) {
     if (r.degeneracy > 0 && Math.abs(r.optimum - optimum) <= tolerance) degeneracy += r.degeneracy;
     assignments += r.assignments;
+    evaluated += r.evaluated;
     complete &&= r.complete;
   }
-  return { optimum, degeneracy, assignments, complete };
+  return { optimum, degeneracy, assignments, evaluated, complete };
 }
 
 /** Exhaustive enumeration on the solver registry: the ground truth of every instance within its limit. */
@@ -81,5 +83,7 @@ export const exhaustiveSolver: ExactSolver<Slice> = {
   maxSize: (kind) => (kind === "cnf" ? CNF_EXACT_MAX_VARIABLES : SPIN_EXACT_MAX),
   plan: planSlices,
   run: exhaustiveSlice,
+  // Every variable fixed (one configuration): only the kernel's set-up and one evaluation remain.
+  leastPart: (problem, slice) => ({ prefixBits: sizeOf(problem), prefix: 0, mirror: slice.mirror }),
   merge: mergeExact,
 };

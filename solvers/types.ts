@@ -24,6 +24,11 @@ export interface ExactResult {
   readonly degeneracy: number;
   /** Configurations covered (2^n for a complete run, mirrors counted). */
   readonly assignments: number;
+  /**
+   * Configurations actually evaluated (the work really done): lanes of evaluated blocks summed over passes for
+   * the pruning CNF kernel, visited configurations for the spin kernel (a mirror pair counts once).
+   */
+  readonly evaluated: number;
   /** False when the stop flag cut the enumeration short. */
   readonly complete: boolean;
 }
@@ -165,6 +170,12 @@ export interface ExactSolver<Part = unknown> {
   plan(problem: Problem, workers: number): Part[];
   /** The pure computation of one part. */
   run(problem: Problem, part: Part, stop: StopFlag): ExactResult;
+  /**
+   * Optional: the smallest part of the same shape as `part` (a zero-length run, e.g. one configuration), whose
+   * {@link run} the worker times to measure the fixed per-call cost (issue 13, the fixed-cost floor). Without
+   * it the floor is not measured (null).
+   */
+  leastPart?(problem: Problem, part: Part): Part;
   /** Joins the parts' results. */
   merge(results: ReadonlyArray<ExactResult>, tolerance: number): ExactResult;
 }

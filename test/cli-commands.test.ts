@@ -143,4 +143,35 @@ describe("report and compare", () => {
     expect(bad.code).toBe(1);
     expect(bad.stdout).toMatch(/REGRESSION\s+ground-truth/);
   });
+
+  it("report records other settings (floor factor, cost model) in the manifest and captions; resume keeps the first start; seed-to-seed compare", () => {
+    // Issue 13, items 9 and 10.
+    const a = join(root, "settings");
+    const study = ["run", "--family", "ksat", "--n", "8:12:2", "--instances", "3", "--seed", "s1", "--solvers", "exhaustive,walk", "--trials", "30", "--predict", "grover", "--resamples", "200"];
+    expect(cli([...study, "--out", a]).code).toBe(0);
+    const first = JSON.parse(readFileSync(join(a, "manifest.json"), "utf8"));
+    const again = cli([...study, "--out", a]);
+    expect(again.code, again.stderr).toBe(0);
+    const second = JSON.parse(readFileSync(join(a, "manifest.json"), "utf8"));
+    expect(second.started_at).toBe(first.started_at);
+    expect(second.resumed_at).toHaveLength(1);
+    const rep = cli(["report", a, "--floor-factor", "3", "--toffoli-us", "100"]);
+    expect(rep.code, rep.stderr).toBe(0);
+    const manifest = JSON.parse(readFileSync(join(a, "manifest.json"), "utf8"));
+    expect(manifest.report_settings.floor_factor).toBe(3);
+    expect(manifest.report_settings.cost_model.toffoliSeconds).toBeCloseTo(100e-6, 15);
+    expect(manifest.report_settings.resamples).toBe(200); // not given: the study's own value stays
+    for (const table of ["table.md", "table.tex"]) {
+      const text = readFileSync(join(a, table), "utf8");
+      expect(text).toContain("fixed-cost floor factor 3");
+      expect(text).toContain("Toffoli time 100 us");
+    }
+    // Same study, another master seed: compared seed to seed, never a regression.
+    const b = join(root, "settings-seed2");
+    expect(cli([...study.map((x) => (x === "s1" ? "s2" : x)), "--out", b]).code).toBe(0);
+    const cmp = cli(["compare", a, b]);
+    expect(cmp.code, cmp.stdout + cmp.stderr).toBe(0);
+    expect(cmp.stdout).toContain("seed-to-seed comparison");
+    expect(cmp.stdout).toMatch(/seed s1: .*; seed s2: .*; (intervals overlap|intervals do not overlap|no intervals)/);
+  });
 });

@@ -2,21 +2,16 @@ import { describe, expect, it } from "vitest";
 import { median } from "simple-statistics";
 import type { PredictionRow, RunRow } from "../harness/types.js";
 import { Rng, deriveSeed } from "../harness/random.js";
-import {
-  compareMethods,
-  fitScaling,
-  speedupLabel,
-  summariseSizes,
-  type ComparisonRow,
-  type FitRow,
-} from "../harness/report/summarise.js";
+import { summariseSizes } from "../harness/report/sizes.js";
+import { fitStudy, type FitRow } from "../harness/report/fits.js";
+import { compareMethods, speedupLabel, type ComparisonRow } from "../harness/report/comparison.js";
 import { comparisonLatex } from "../harness/report/latex.js";
 import { comparisonMarkdown } from "../harness/report/markdown.js";
 import { comparisonTerminalTable } from "../harness/report/terminal-table.js";
 
 function run(partial: Partial<RunRow> & Pick<RunRow, "n" | "instance" | "solver">): RunRow {
   return {
-    family: "ksat", run_length: null, status: "ok", wall_ns: 1, work: 1, trials: null, successes: null, p: null,
+    family: "ksat", run_length: null, status: "ok", wall_ns: 1, work: 1, floor_ns: null, trials: null, successes: null, p: null,
     p_low: null, p_high: null, work_per_trial: null, wall_ns_per_trial: null, tts_ns: null, tts_ns_low: null,
     tts_ns_high: null, tts_work: null, tts_work_low: null, message: "", ...partial,
   };
@@ -88,11 +83,15 @@ describe("sizes table", () => {
 describe("fits and comparison", () => {
   it("fits the per-size optimal run length, not a fixed one", () => {
     const { runs, predictions } = annealStudy();
-    const fits = fitScaling(runs, predictions, { resamples: 300, quantiles: [0.5] });
+    const fits = fitStudy(runs, predictions, { resamples: 300, quantiles: [0.5] });
     const anneal = fits.find((f) => f.method === "anneal" && f.measure === "tts_ns")!;
     // Generated exponent at the optimal run length: 0.3 (by construction); the 1000-sweep run alone would give 0.2.
     expect(Math.abs(anneal.exponent! - 0.3)).toBeLessThan(0.02);
     expect(anneal.run_length_rule).toContain("optimal");
+    // 100 sweeps is inside the grid 10, 100, 1000 at every size: an estimate, not a bound (run-length edge rule).
+    expect(anneal.exponent_status).toBe("estimate");
+    // 2^(0.3n) with lognormal instance noise is exponential over n = 18…30 by AIC (stats/growth-model.ts).
+    expect(anneal.growth_model).toBe("exponential");
     // Default --fit-from: 12 + (30 − 12)/3 = 18 (rule of harness/stats/fit.ts).
     expect(anneal.n_from).toBe(18);
     const exhaustive = fits.find((f) => f.method === "exhaustive" && f.measure === "work")!;
@@ -103,6 +102,8 @@ describe("fits and comparison", () => {
     const fit = (method: string, kind: "solver" | "predictor", measure: FitRow["measure"], a: number, lo: number, hi: number, c: number): FitRow => ({
       family: "ksat", method_kind: kind, method, measure, quantile: 0.5, exponent: a, exponent_low: lo, exponent_high: hi,
       base: 2 ** a, base_low: 2 ** lo, base_high: 2 ** hi, intercept: c, r2: 1, n_from: 18, n_to: 30, points: 7,
+      basis: measure === "tts_ns" || measure === "wall_ns" ? "time" : "work", poly_degree: null, aic_exponential: null,
+      aic_polynomial: null, growth_model: "exponential", floor_factor: null, below_floor: "", exponent_status: "",
       run_length_rule: "", resamples: 2000, flag: "",
     });
     const log2ns = Math.log2(1e9);
@@ -112,8 +113,11 @@ describe("fits and comparison", () => {
       fit("exhaustive", "solver", "wall_ns", 1, 1, 1, -30 + log2ns),
       fit("grover", "predictor", "queries", 0.5, 0.49, 0.51, 3),
     ];
-    const rows = compareMethods(fits, () => 2 ** -12.4, { parallelism: 4 });
-    expect(rows).toHaveLength(2);
+    const all = compareMethods(fits, () => 2 ** -12.4, { parallelism: 4 });
+    // Two bases × two solvers × one predictor; only time fits exist, so the work rows have no verdict.
+    expect(all).toHaveLength(4);
+    for (const r of all.filter((x) => x.basis === "work")) expect(r.speedup_label).toContain("undetermined");
+    const rows = all.filter((r) => r.basis === "time");
     const strongest = rows.find((r) => r.solver === "anneal")!;
     expect(strongest.strongest_classical).toBe(true);
     // Ratio interval [0.78/0.51, 0.82/0.49] = [1.529, 1.673] (interval arithmetic): sub-quadratic.
@@ -122,7 +126,10 @@ describe("fits and comparison", () => {
     expect(strongest.speedup_label).toBe("sub-quadratic speedup");
     // n* = (3 − 12.4 + 20 + log₂4)/(0.8 − 0.5) = 42 (closed form of harness/stats/crossover.ts).
     expect(strongest.crossover_n!).toBeCloseTo(42, 6);
-    expect(strongest.note).toContain("strongest");
+    expect(strongest.note).toContain("lowest classical time exponent");
+    // n* = 42 > the largest measured n = 30: an extrapolation, flagged (issue 13).
+    expect(strongest.extrapolated).toBe(true);
+    expect(strongest.flags).toContain("extrapolated");
     const weaker = rows.find((r) => r.solver === "exhaustive")!;
     expect(weaker.strongest_classical).toBe(false);
     expect(weaker.speedup_label).toContain("not rated");
@@ -132,7 +139,9 @@ describe("fits and comparison", () => {
     // Hand-computed ratio intervals against SPEEDUP_RULE in harness/report/summarise.ts.
     const e = (exponent: number, low: number, high: number) => ({ exponent, low, high });
     expect(speedupLabel(e(1, 0.98, 1.02), e(0.5, 0.49, 0.51)).label).toBe("quadratic"); // [1.92, 2.08]
-    expect(speedupLabel(e(1, 0.98, 1.02), e(0.4, 0.39, 0.41)).label).toBe("super-quadratic; better than Grover"); // [2.39, 2.62]
+    // [2.39, 2.62]; "better than Grover" is reported apart from the label, never appended to it (issue 13).
+    expect(speedupLabel(e(1, 0.98, 1.02), e(0.4, 0.39, 0.41)).label).toBe("super-quadratic");
+    expect(speedupLabel(e(1, 0.98, 1.02), e(0.4, 0.39, 0.41)).betterThanGrover).toBe(true);
     expect(speedupLabel(e(0.3, 0.2, 0.4), e(0.25, 0.15, 0.55)).label).toBe("no significant speedup"); // [0.36, 2.67]
     expect(speedupLabel(e(0.3, 0.29, 0.31), e(0.5, 0.49, 0.51)).label).toBe("quantum slower"); // [0.57, 0.63]
     expect(speedupLabel(e(1, 0.8, 1.2), e(0.5, 0.45, 0.55)).label).toBe("speedup, consistent with quadratic (wide interval)"); // [1.45, 2.67]
@@ -151,9 +160,38 @@ describe("fits and comparison", () => {
   });
 });
 
+describe("caveats travel with the numbers", () => {
+  const rows: ComparisonRow[] = [0, 1].map((k) => ({
+    family: "pspin", basis: "time", solver: "anneal", predictor: "grover", quantile: 0.5, classical_measure: "tts_ns",
+    quantum_measure: "seconds (predicted)", exponent_classical: 0.2, exponent_classical_low: 0.15, exponent_classical_high: 0.25,
+    exponent_quantum: 0.05, exponent_quantum_low: 0.04, exponent_quantum_high: 0.06, exponent_ratio: 4, exponent_ratio_low: 2.5,
+    exponent_ratio_high: 6.25, n_from: 18, n_to: 30, rated: k === 0, strongest_classical: k === 0, speedup_label: "super-quadratic",
+    better_than_grover: false, parallelism: 1, crossover_n: 124, crossover_seconds: 1.3e8, crossover: "crossing", extrapolated: true,
+    flags: k === 0 ? "extrapolated;upper-bound" : "extrapolated", note: "",
+  }));
+
+  it("marks every flagged caveat in the terminal, Markdown and LaTeX tables, with its footnote line", () => {
+    // The issue's case: n* = 124 from data ending at n = 30 must read as an extrapolation in every format.
+    const term = comparisonTerminalTable(rows);
+    const md = comparisonMarkdown(rows);
+    const tex = comparisonLatex(rows);
+    for (const text of [term, md]) {
+      expect(text).toContain("super-quadratic [a,b]");
+      expect(text).toContain("super-quadratic [a]");
+      expect(text).toContain("a: crossover beyond the largest measured n");
+      expect(text).toContain("b: optimal run length at the grid edge: exponent is an upper bound");
+      expect(text).toContain("124.0 (extrapolated)");
+    }
+    expect(tex).toContain("super-quadratic$^{\\mathrm{a,b}}$");
+    expect(tex).toContain("$^{\\mathrm{b}}$optimal run length at the grid edge: exponent is an upper bound");
+    expect(tex).toContain("124.0 (extrapolated)");
+  });
+});
+
 describe("paper tables", () => {
   const rows: ComparisonRow[] = ["grover", "amplified-walk", "spectral"].map((predictor, k) => ({
-    family: "ksat", solver: "anneal", predictor, quantile: 0.5, classical_measure: "tts_ns",
+    family: "ksat", basis: "time", solver: "anneal", predictor, quantile: 0.5, classical_measure: "tts_ns", quantum_measure: "seconds (predicted)",
+    n_from: 18, n_to: 30, rated: true, extrapolated: k === 0, flags: k === 0 ? "extrapolated;upper-bound" : k === 2 ? "polynomial" : "",
     exponent_classical: 0.3, exponent_classical_low: 0.28, exponent_classical_high: 0.32,
     exponent_quantum: 0.2 + 0.1 * k, exponent_quantum_low: 0.18 + 0.1 * k, exponent_quantum_high: k === 2 ? null : 0.22 + 0.1 * k,
     exponent_ratio: 0.3 / (0.2 + 0.1 * k), exponent_ratio_low: 1, exponent_ratio_high: 2,
@@ -205,8 +243,8 @@ describe("paper tables", () => {
     // The dashed rule gives each column's width; every right-aligned cell ends where its dashes end (common practice).
     const ends: number[] = [];
     for (let i = 0; i < rule.length; i++) if (rule[i] === "-" && rule[i + 1] !== "-") ends.push(i);
-    expect(ends).toHaveLength(9);
-    const nStarEnd = ends[7]!;
+    expect(ends).toHaveLength(10);
+    const nStarEnd = ends[8]!;
     for (const line of lines.slice(2, 2 + rows.length)) expect(line[nStarEnd]).not.toBe(" ");
     expect(lines.slice(2, 2 + rows.length).some((l) => l.includes("none in range"))).toBe(true);
   });

@@ -14,7 +14,8 @@ function exact(cnf: Cnf): { optimum: number; degeneracy: number } {
   expect(r.assignments).toBe(2 ** cnf.variables);
   if (cnf.variables <= 25) {
     const plain = exhaustiveCnfSlice(cnf, 0, 0, null, { skipping: "block" });
-    expect(plain).toEqual(r);
+    // Same answer; the evaluated counts differ by design (different pruning and lane widths).
+    expect({ ...plain, evaluated: 0 }).toEqual({ ...r, evaluated: 0 });
   }
   return { optimum: r.optimum, degeneracy: r.degeneracy };
 }

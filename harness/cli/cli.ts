@@ -61,7 +61,7 @@ async function main(): Promise<number> {
     .scriptName("speedbound")
     .usage("$0 <command> [options]\n\nMeasured classical scaling against predicted quantum costs on the same seeded instances.")
     .command("run", "generate instances, compute ground truth, time solvers, predict quantum costs, write tables", (y) => withOptions(y, "run"), async (a) => set(await commands.run(a, args)))
-    .command("demo", "a small 3-SAT study (n = 12..26, satisfiable draws) into results/demo, with a summary", (y) => y, async () => set(await commands.demo()))
+    .command("demo", "a small SK spin-glass study (n = 14..26: exhaustive, anneal) into results/demo, with a summary", (y) => y, async () => set(await commands.demo()))
     .command(
       "solve <file>",
       "exact optimum and degeneracy of one DIMACS CNF or coupling-list file",
@@ -78,7 +78,7 @@ async function main(): Promise<number> {
       "report <dir>",
       "rebuild every table, fit and plot of an output folder from its journal",
       (y) => withOptions(y.positional("dir", { type: "string" }), "report"),
-      async (a) => set(await commands.report(a)),
+      async (a) => set(await commands.report(a, args)),
     )
     .command(
       "spectral <file>",

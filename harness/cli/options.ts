@@ -61,6 +61,8 @@ export const COOLING_INTERNAL: Readonly<Record<string, "linear" | "geometric">> 
   linear: "linear",
 };
 const INSTANCE: ReadonlyArray<CommandName> = ["run", "slurm", "instance"];
+/** Cost-model options: `report` takes them too, so a different Toffoli time needs no rerun (issue 13). */
+const COST_MODEL: ReadonlyArray<CommandName> = ["run", "slurm", "cost", "report"];
 
 /** The option table. */
 export const OPTIONS = [
@@ -90,18 +92,19 @@ export const OPTIONS = [
   { name: "spectral-b", aliases: ["b"], type: "number", group: "predictors", default: 0.7, min: 0, commands: ["run", "slurm", "spectral"], description: "spectral: filter strength b" },
   { name: "spectral-b-scan", aliases: ["b-scan"], type: "string", group: "predictors", commands: ["run", "slurm", "spectral"], description: "spectral: scan b over FROM:TO:STEP (overrides --spectral-b)" },
   { name: "spectral-eta", aliases: ["eta"], type: "number", group: "predictors", default: 0.5, min: 0, max: 0.999, commands: ["run", "slurm", "spectral"], description: "spectral: filter depth η (costs shallower than η of the optimum are flattened)" },
-  { name: "toffoli-us", type: "number", group: "cost model", default: 170, min: 0, unit: "µs", commands: ["run", "slurm", "cost"], description: "time per Toffoli gate with one magic-state factory" },
-  { name: "factories", type: "integer", group: "cost model", default: 1, min: 1, commands: ["run", "slurm", "cost"], description: "magic-state factories working in parallel" },
-  { name: "classical-parallelism", type: "number", group: "cost model", default: 1, min: 1, commands: ["run", "slurm", "cost"], description: "classical cores S the measured time is divided by" },
-  { name: "oracle-toffolis", type: "number", group: "cost model", min: 1, commands: ["run", "slurm", "cost"], description: "override Toffolis per oracle query" },
-  { name: "walk-step-toffolis", type: "number", group: "cost model", min: 1, commands: ["run", "slurm", "cost"], description: "override Toffolis per reversible Schöning step" },
-  { name: "anneal-step-toffolis", type: "number", group: "cost model", min: 1, commands: ["run", "slurm", "cost"], description: "override Toffolis per reversible Metropolis update" },
+  { name: "toffoli-us", type: "number", group: "cost model", default: 170, min: 0, unit: "µs", commands: COST_MODEL, description: "time per Toffoli gate with one magic-state factory" },
+  { name: "factories", type: "integer", group: "cost model", default: 1, min: 1, commands: COST_MODEL, description: "magic-state factories working in parallel" },
+  { name: "classical-parallelism", type: "number", group: "cost model", default: 1, min: 1, commands: COST_MODEL, description: "classical cores S the measured time is divided by" },
+  { name: "oracle-toffolis", type: "number", group: "cost model", min: 1, commands: COST_MODEL, description: "override Toffolis per oracle query" },
+  { name: "walk-step-toffolis", type: "number", group: "cost model", min: 1, commands: COST_MODEL, description: "override Toffolis per reversible Schöning step" },
+  { name: "anneal-step-toffolis", type: "number", group: "cost model", min: 1, commands: COST_MODEL, description: "override Toffolis per reversible Metropolis update" },
   { name: "workers", type: "integer", group: "run", min: 1, max: 256, commands: ["run", "solve"], description: "worker threads (default: available cores)" },
   { name: "budget", type: "duration", group: "run", commands: STUDY, description: "wall-clock budget for the whole study (e.g. 90s, 6h); later cells are skipped, running ones censored" },
   { name: "cell-limit", type: "duration", group: "run", commands: STUDY, description: "wall-clock limit per cell (e.g. 10m); a stopped cell is recorded as censored" },
   { name: "shard", type: "string", group: "run", commands: ["run"], description: "run only slice K/N of the cells (1-based K)" },
   { name: "fit-from", type: "integer", group: "report", min: 1, commands: ["run", "slurm", "report"], description: "smallest n used in scaling fits (default: drop the smallest third of the sizes)" },
   { name: "resamples", type: "integer", group: "report", default: 2000, min: 100, max: 1e6, commands: ["run", "slurm", "report"], description: "bootstrap resamples for quantile and exponent intervals" },
+  { name: "floor-factor", type: "number", group: "report", default: 10, min: 1, commands: ["run", "slurm", "report"], description: "time fits use only sizes whose median cell time is at least this many times the solver's fixed per-cell cost" },
   { name: "json", type: "boolean", group: "output", commands: ["solve", "spectral"], description: "print one JSON object" },
   { name: "tolerance", type: "number", group: "output", default: 0.25, min: 0, commands: ["compare"], description: "relative change in time per step that counts as a change" },
   { name: "shards", type: "integer", group: "cluster", min: 1, commands: ["slurm"], description: "number of array tasks (study slices); required" },

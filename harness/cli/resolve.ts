@@ -222,7 +222,7 @@ export function resolveStudy(argv: Argv): StudySpec {
     predictors,
     spectral: { bValues, eta: numberOption(argv, "spectral-eta") as number },
     costModel: resolveCostModel(argv),
-    report: { fitFrom: optionalNumber(argv, "fit-from"), resamples: numberOption(argv, "resamples") as number },
+    report: { fitFrom: optionalNumber(argv, "fit-from"), resamples: numberOption(argv, "resamples") as number, floorFactor: numberOption(argv, "floor-factor") as number },
   };
   return deepFreeze(study);
 }

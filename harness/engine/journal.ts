@@ -32,6 +32,10 @@ export interface TruthRecord extends RecordBase {
   readonly optimum: number | null;
   readonly degeneracy: number | null;
   readonly assignments: number;
+  /** Configurations actually evaluated (absent in journals written before it was recorded). */
+  readonly evaluated?: number;
+  /** Fixed per-cell cost (sum over slices of a one-configuration call), ns; absent in older journals. */
+  readonly floor_ns?: number | null;
   readonly mean: number | null;
 }
 
@@ -46,6 +50,8 @@ export interface RunRecord extends RecordBase {
   readonly best: number | null;
   readonly beta_start: number | null;
   readonly beta_end: number | null;
+  /** Fixed per-cell cost (the same call with zero trials), ns; absent in older journals. */
+  readonly floor_ns?: number | null;
 }
 
 /**

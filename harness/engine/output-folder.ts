@@ -27,11 +27,15 @@ export const OUT_FILES = {
   comparison: "comparison.csv",
   latex: "table.tex",
   markdown: "table.md",
+  studyPage: "report.html",
 } as const;
 
-/** File name of the scaling plot of a family. */
-export function scalingPlotFile(family: string): string {
-  return `scaling-${family}.svg`;
+/** The figures of a study (issue 13): work, time and per-instance comparison. */
+export type FigureKind = "work" | "time" | "instances";
+
+/** File name of one figure of a family. */
+export function figureFile(kind: FigureKind, family: string): string {
+  return `${kind}-${family}.svg`;
 }
 
 /**

@@ -102,13 +102,14 @@ async function runLocked(spec: StudySpec, options: RunOptions): Promise<RunSumma
         const problem = withDrawStop(stop.generationCheck(), () => materialise(ctxOf(inst))).problem;
         const { merged, answers } = await computeGroundTruth(pool, problem, ctxOf(inst), options.workers, flag);
         const wall = answers.reduce((s, a) => s + a.wall_ns, 0);
+        const floor = answers.every((a) => a.floor_ns !== null) ? answers.reduce((s, a) => s + (a.floor_ns ?? 0), 0) : null;
         const status = merged.complete ? "ok" : "censored";
         return {
           ...base, status, wall_ns: wall, message: status === "ok" ? "" : "stopped by a time limit",
           seed: answers[0].seed, meta: answers[0].meta,
           optimum: merged.complete ? merged.optimum : null,
           degeneracy: merged.complete ? merged.degeneracy : null,
-          assignments: merged.assignments, mean: answers[0].mean,
+          assignments: merged.assignments, evaluated: merged.evaluated, floor_ns: floor, mean: answers[0].mean,
         };
       } catch (e) {
         if (e instanceof InputError) throw e; // an unmeetable filter (e.g. --satisfiable at a high density) ends the study: bad input
@@ -139,7 +140,7 @@ async function runLocked(spec: StudySpec, options: RunOptions): Promise<RunSumma
           const r = a.result;
           return rec({
             status: r.censored ? "censored" : "ok", wall_ns: a.wall_ns, trials: r.trials, successes: r.successes, work: r.work,
-            best: Number.isFinite(r.best) ? r.best : null, ...(r.extra as Partial<RunRecord> | undefined),
+            best: Number.isFinite(r.best) ? r.best : null, ...(r.extra as Partial<RunRecord> | undefined), floor_ns: a.floor_ns,
             message: r.censored ? `stopped by a time limit after ${r.trials} trials` : "",
           });
         } catch (e) {

@@ -35,7 +35,8 @@ export interface StudySpec {
   readonly predictors: ReadonlyArray<string>;
   readonly spectral: { readonly bValues: ReadonlyArray<number>; readonly eta: number };
   readonly costModel: CostModelSettings;
-  readonly report: { readonly fitFrom: number | null; readonly resamples: number };
+  /** Report settings; floorFactor is absent in spec.json files written before it existed (default 10). */
+  readonly report: { readonly fitFrom: number | null; readonly resamples: number; readonly floorFactor?: number };
 }
 
 /** One instance of the study: what a worker needs to regenerate it. */

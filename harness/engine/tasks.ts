@@ -52,6 +52,8 @@ export type Task = TruthSliceTask | TrialsTask | PredictTask;
 export interface TruthSliceAnswer {
   readonly result: ExactResult;
   readonly wall_ns: number;
+  /** Fixed cost of the call: the same kernel on a one-configuration slice, timed after the real call; null if it failed. */
+  readonly floor_ns: number | null;
   readonly meta: Readonly<Record<string, number | string | boolean>>;
   readonly seed: string;
   /** Exact mean cost over all configurations (spectral normalisation, reports). */
@@ -62,6 +64,8 @@ export interface TruthSliceAnswer {
 export interface TrialsAnswer {
   readonly result: TrialsOutcome;
   readonly wall_ns: number;
+  /** Fixed cost of the cell: the same solver call with zero trials, timed after the real call; null if it failed. */
+  readonly floor_ns: number | null;
 }
 
 /** Worker answer to a predict task: the predictor's columns. */

@@ -48,9 +48,9 @@ export function buildTables(spec: StudySpec, records: ReadonlyArray<JournalRecor
   for (const t of truths) {
     runs.push({
       family: spec.family, n: t.n, instance: t.index, solver: "exhaustive", run_length: null, status: t.status,
-      wall_ns: t.wall_ns, work: t.assignments, trials: null, successes: null, p: null, p_low: null, p_high: null,
+      wall_ns: t.wall_ns, work: t.evaluated ?? t.assignments, floor_ns: t.floor_ns ?? null, trials: null, successes: null, p: null, p_low: null, p_high: null,
       work_per_trial: null, wall_ns_per_trial: null, tts_ns: t.status === "ok" ? t.wall_ns : null, tts_ns_low: null,
-      tts_ns_high: null, tts_work: t.status === "ok" ? t.assignments : null, tts_work_low: null, message: t.message,
+      tts_ns_high: null, tts_work: t.status === "ok" ? (t.evaluated ?? t.assignments) : null, tts_work_low: null, message: t.message,
     });
   }
   for (const r of runsRec) runs.push(runRow(spec, r));
@@ -119,7 +119,7 @@ function runRow(spec: StudySpec, r: RunRecord): RunRow {
   const finite = (x: number | null | undefined): number | null => (x === null || x === undefined || !Number.isFinite(x) ? null : x);
   return {
     family: spec.family, n: r.n, instance: r.index, solver: r.solver, run_length: r.run_length, status: r.status,
-    wall_ns: r.wall_ns, work: r.work, trials: r.trials, successes: r.successes,
+    wall_ns: r.wall_ns, work: r.work, floor_ns: r.floor_ns ?? null, trials: r.trials, successes: r.successes,
     p: tts ? tts.p : null, p_low: tts ? tts.p_low : null, p_high: tts ? tts.p_high : null,
     work_per_trial: workPerTrial, wall_ns_per_trial: wallPerTrial,
     tts_ns: finite(tts?.tts), tts_ns_low: finite(tts?.tts_low), tts_ns_high: finite(tts?.tts_high),

@@ -2,7 +2,9 @@
  * The comparison as an aligned plain-text table (printed at the end of `run`), and the number formats the
  * paper tables (latex.ts, markdown.ts) share with it.
  */
-import type { ComparisonRow } from "./summarise.js";
+import type { ComparisonRow } from "./comparison.js";
+import { footnoteLines, footnoteMarks, rowMarks } from "./footnotes.js";
+import type { FlagCode } from "./comparison.js";
 
 /** Horizontal alignment of a column. */
 export type Align = "left" | "right";
@@ -11,7 +13,7 @@ export type Align = "left" | "right";
 export interface ComparisonColumn {
   readonly header: string;
   readonly align: Align;
-  readonly cell: (row: ComparisonRow) => string;
+  readonly cell: (row: ComparisonRow, marks: ReadonlyMap<FlagCode, string>) => string;
 }
 
 /** Fixed-point number or "–" for missing. */
@@ -49,24 +51,31 @@ export function formatSeconds(seconds: number | null): string {
   return years < 1e4 ? `${years.toPrecision(3)} yr` : `${years.toExponential(1)} yr`;
 }
 
-/** The crossover cell: n* to one decimal, or the status in words. */
+/** The crossover cell: n* to one decimal (labelled when extrapolated), or the status in words. */
 export function formatCrossover(row: ComparisonRow): string {
-  if (row.crossover_n !== null) return row.crossover_n.toFixed(1);
+  if (row.crossover_n !== null) return row.extrapolated ? `${row.crossover_n.toFixed(1)} (extrapolated)` : row.crossover_n.toFixed(1);
   if (row.crossover === "quantum faster throughout") return "below range";
   return row.crossover;
+}
+
+/** The verdict with its footnote marks: "quadratic [a,c]". */
+export function verdictCell(row: ComparisonRow, marks: ReadonlyMap<FlagCode, string>): string {
+  const m = rowMarks(row, marks);
+  return m === "" ? row.speedup_label : `${row.speedup_label} [${m}]`;
 }
 
 /** Columns of the comparison in every table format (plain-text headers). */
 export const COMPARISON_TABLE_COLUMNS: ReadonlyArray<ComparisonColumn> = [
   { header: "family", align: "left", cell: (r) => r.family },
-  { header: "classical", align: "left", cell: (r) => (r.strongest_classical ? `${r.solver}*` : r.solver) },
+  { header: "basis", align: "left", cell: (r) => r.basis },
+  { header: "classical", align: "left", cell: (r) => `${r.solver}${r.strongest_classical ? "*" : ""} (${r.classical_measure || "–"})` },
   { header: "a_classical [95%]", align: "right", cell: (r) => formatInterval(r.exponent_classical, r.exponent_classical_low, r.exponent_classical_high) },
-  { header: "quantum", align: "left", cell: (r) => r.predictor },
+  { header: "quantum", align: "left", cell: (r) => `${r.predictor} (${r.quantum_measure})` },
   { header: "a_quantum [95%]", align: "right", cell: (r) => formatInterval(r.exponent_quantum, r.exponent_quantum_low, r.exponent_quantum_high) },
   { header: "ratio", align: "right", cell: (r) => formatInterval(r.exponent_ratio, r.exponent_ratio_low, r.exponent_ratio_high, 2) },
-  { header: "speedup", align: "left", cell: (r) => r.speedup_label },
-  { header: "n*", align: "right", cell: formatCrossover },
-  { header: "time at n*", align: "right", cell: (r) => formatSeconds(r.crossover_seconds) },
+  { header: "verdict", align: "left", cell: verdictCell },
+  { header: "n*", align: "right", cell: (r) => (r.basis === "time" ? formatCrossover(r) : "") },
+  { header: "time at n*", align: "right", cell: (r) => (r.basis === "time" ? formatSeconds(r.crossover_seconds) : "") },
 ];
 
 /**
@@ -94,20 +103,25 @@ export function alignedTable(
  */
 export function comparisonTerminalTable(rows: ReadonlyArray<ComparisonRow>): string {
   const cols = COMPARISON_TABLE_COLUMNS;
-  return alignedTable(
+  const marks = footnoteMarks(rows);
+  const table = alignedTable(
     cols.map((c) => c.header),
-    rows.map((r) => cols.map((c) => c.cell(r))),
+    rows.map((r) => cols.map((c) => c.cell(r, marks))),
     cols.map((c) => c.align),
   );
+  const notes = footnoteLines(marks);
+  return notes.length === 0 ? table : `${table}${notes.join("\n")}\n`;
 }
 
 /** One-line legend under every comparison table (exponents, the star, the parallelism and quantile). */
-export function comparisonLegend(rows: ReadonlyArray<ComparisonRow>): string {
+export function comparisonLegend(rows: ReadonlyArray<ComparisonRow>, settings: string = ""): string {
   const parallelism = [...new Set(rows.map((r) => r.parallelism))].join(", ") || "1";
   const quantile = [...new Set(rows.map((r) => r.quantile))].join(", ") || "0.5";
   return (
     `a = fitted exponent of log2 cost per variable (quantile ${quantile} over instances), 95% bootstrap interval; ` +
-    `ratio = a_classical/a_quantum (2 = quadratic); * = strongest classical solver, the only one rated; ` +
-    `classical time divided by S = ${parallelism}.`
+    `ratio = a_classical/a_quantum (2 = quadratic), like measures only: work rows compare elementary operations with queries ` +
+    `(amplified solvers: steps with steps), time rows classical seconds / S with predicted quantum seconds; ` +
+    `* = lowest classical exponent on the row's basis; classical time divided by S = ${parallelism}.` +
+    (settings === "" ? "" : ` Settings: ${settings}.`)
   );
 }

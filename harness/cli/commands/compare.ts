@@ -13,7 +13,9 @@ export async function compare(argv: Args): Promise<number> {
   const findings = compareFolders(resolve(String(argv.old)), resolve(String(argv.new)), tolerance);
   const streams = streamsNote(readStudyFolder(resolve(String(argv.old))).build, readStudyFolder(resolve(String(argv.new))).build);
   if (streams) process.stdout.write(`note        streams       ${streams}\n`);
-  if (findings.length === 0) process.stdout.write("speedbound compare: no change beyond intervals and tolerance\n");
+  if (findings.some((f) => f.kind === "seed-to-seed")) {
+    process.stdout.write("speedbound compare: the folders differ only in the master seed: seed-to-seed comparison of median exponents\n");
+  } else if (findings.length === 0) process.stdout.write("speedbound compare: no change beyond intervals and tolerance\n");
   for (const f of findings) process.stdout.write(`${f.regression ? "REGRESSION" : "change    "}  ${f.kind.padEnd(12)}  ${f.what}: ${f.detail}\n`);
   return findings.some((f) => f.regression) ? EXIT.failures : EXIT.ok;
 }

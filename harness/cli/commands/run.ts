@@ -1,4 +1,5 @@
 /** `speedbound run`: resolve the study, run (or resume) it, write tables and manifest, print the comparison. */
+import { readFileSync } from "node:fs";
 import { join, resolve } from "node:path";
 import { EXIT } from "../../errors.js";
 import { runStudy } from "../../engine/run.js";
@@ -30,7 +31,17 @@ export async function run(argv: Args, rawArgs: ReadonlyArray<string>): Promise<n
   const summary = await runStudy(spec, { out, workers, budgetMs, cellLimitMs, shard, progress: consoleProgress(), graceMs: 10_000 });
   if (summary.tornJournalLine) process.stderr.write(`speedbound: warning: the journal's last line was torn (a killed run) and was dropped\n`);
   const { paper } = await writeOutputs(spec, out);
-  writeFileAtomic(join(out, OUT_FILES.manifest), JSON.stringify(buildManifest({ argv: rawArgs, spec, workers, shard, started, ended: new Date(), summary, extra: { options: resolvedOptions(argv, "run"), budget_ms: budgetMs, cell_limit_ms: cellLimitMs, stream_scheme: STREAM_SCHEME } }), null, 2) + "\n");
+  // A resume keeps the first start time and adds its own to `resumed_at`.
+  const previous = readPreviousManifest(join(out, OUT_FILES.manifest));
+  const firstStart = summary.cellsResumed > 0 && typeof previous?.started_at === "string" ? new Date(previous.started_at) : started;
+  const resumedAt = summary.cellsResumed > 0
+    ? [...(Array.isArray(previous?.resumed_at) ? (previous!.resumed_at as string[]) : []), started.toISOString()]
+    : [];
+  const extra = {
+    options: resolvedOptions(argv, "run"), budget_ms: budgetMs, cell_limit_ms: cellLimitMs,
+    resumed_at: resumedAt, report_settings: { settings: paper.settings ?? "" }, stream_scheme: STREAM_SCHEME,
+  };
+  writeFileAtomic(join(out, OUT_FILES.manifest), JSON.stringify(buildManifest({ argv: rawArgs, spec, workers, shard, started: firstStart, ended: new Date(), summary, extra }), null, 2) + "\n");
   process.stdout.write(formatComparison(paper) + "\n");
   process.stdout.write(summaryLine(summary, out) + "\n");
   if (summary.interrupted === "SIGINT") return EXIT.interrupted;
@@ -49,4 +60,13 @@ function summaryLine(s: RunSummary, out: string): string {
     s.incompleteSizes.length ? `incomplete: ${s.incompleteSizes.join(",")}` : "",
   ].filter((x) => x !== "");
   return `speedbound: ${parts.join("; ")}\nspeedbound: tables in ${out}`;
+}
+
+/** The manifest of an earlier run in the same folder, or null. */
+function readPreviousManifest(path: string): Record<string, unknown> | null {
+  try {
+    return JSON.parse(readFileSync(path, "utf8")) as Record<string, unknown>;
+  } catch {
+    return null;
+  }
 }

@@ -1,0 +1,274 @@
+/**
+ * Journal rows as observations: per (family, method kind, method, run length, n, measure) the per-instance values,
+ * with censoring, error rows and fixed-cost floors; and the per-size choice of the optimal run length. Shared by
+ * sizes.ts, fits.ts and the figures. Pure functions: no files, no console.
+ *
+ * Conventions:
+ * - Rows with status "error" are left out and counted (`errors`). Rows with status "censored" are lower bounds
+ *   ("at least"); so is a time-to-solution of a row with no success (p = 0), whose bound is the row's value, its
+ *   `*_low` column, or 0 when neither is finite. Quantiles follow the censoring rule of stats/censoring.ts.
+ * - Several rows for the same (instance, method, run length): the last one counts (a resumed journal may repeat).
+ * - Randomised solvers with several run lengths: at each size the run length whose median steps to solution
+ *   (`tts_work` by default) over instances is smallest is the size's optimal one (ties: the shorter run); fits
+ *   use only those (Rønnow et al., Science 345, 420 (2014): a fixed run length distorts the apparent scaling).
+ *   The choice is made from work, which is deterministic for a given seed, so a work exponent cannot move
+ *   between two runs of one study because of timing noise (issue 13); it is made on the point estimate and not
+ *   re-made inside the bootstrap.
+ */
+import type { PredictionRow, RunRow } from "../types.js";
+import { PREDICTORS } from "../predict/registry.js";
+import { censoredQuantile } from "../stats/censoring.js";
+import type { SizeRunLengths } from "../stats/run-length-edge.js";
+
+/** Whether a row of the report describes a classical solver or a quantum predictor. */
+export type MethodKind = "solver" | "predictor";
+
+/** Cost measures of runs.csv rows, in column order. */
+export const RUN_MEASURES = ["wall_ns", "work", "tts_ns", "tts_work"] as const;
+/** Cost measures of predictions.csv rows. */
+export const PREDICTION_MEASURES = ["queries", "steps"] as const;
+/** A cost measure (a column of runs.csv or predictions.csv). */
+export type Measure = (typeof RUN_MEASURES)[number] | (typeof PREDICTION_MEASURES)[number];
+
+/** Unit of each measure, for axis titles and table headers. */
+export const MEASURE_UNITS: Readonly<Record<Measure, string>> = {
+  wall_ns: "wall time, ns",
+  work: "elementary steps",
+  tts_ns: "time to solution (99 %), ns",
+  tts_work: "steps to solution (99 %)",
+  queries: "oracle queries",
+  steps: "classical steps inside amplified runs",
+};
+
+/** Options shared by {@link summariseSizes} and {@link fitScaling}. */
+export interface SummaryOptions {
+  /** Bootstrap resamples; default 2000. */
+  readonly resamples?: number;
+  /** Bootstrap seed string; default "speedbound-bootstrap". */
+  readonly seed?: string;
+  /** Confidence level of the intervals; default 0.95. */
+  readonly level?: number;
+  /** Measure whose median picks the per-size optimal run length; default "tts_work" (deterministic per seed). */
+  readonly runLengthMeasure?: Measure;
+}
+
+
+// ---------------------------------------------------------------------------------------------------------
+// Collecting observations
+
+export interface Observation {
+  value: number;
+  censored: boolean;
+}
+
+export interface Group {
+  family: string;
+  kind: MethodKind;
+  method: string;
+  runLength: number | null;
+  n: number;
+  measure: Measure;
+  obs: Map<number, Observation>;
+  missing: Set<number>;
+}
+
+export interface Collected {
+  groups: Map<string, Group>;
+  /** Error rows per (family, kind, method, run length, n). */
+  errors: Map<string, Set<number>>;
+  /** Measures seen per (family, kind, method). */
+  measures: Map<string, Set<Measure>>;
+  /** Fixed per-cell cost (floor_ns) per cell key (family, kind, method, run length, n), per instance. */
+  floors: Map<string, Map<number, number>>;
+}
+
+export const sep = "\u0000";
+export const cellKey = (family: string, kind: MethodKind, method: string, runLength: number | null, n: number): string =>
+  [family, kind, method, runLength ?? "", n].join(sep);
+export const seriesKey = (family: string, kind: MethodKind, method: string): string => [family, kind, method].join(sep);
+
+function lowColumn(measure: Measure): string | null {
+  return measure === "tts_ns" ? "tts_ns_low" : measure === "tts_work" ? "tts_work_low" : measure === "queries" ? "queries_low" : measure === "steps" ? "steps_low" : null;
+}
+
+export function collect(runs: ReadonlyArray<RunRow>, predictions: ReadonlyArray<PredictionRow>): Collected {
+  const groups = new Map<string, Group>();
+  const errors = new Map<string, Set<number>>();
+  const measures = new Map<string, Set<Measure>>();
+  const floors = new Map<string, Map<number, number>>();
+  const add = (
+    family: string,
+    kind: MethodKind,
+    method: string,
+    runLength: number | null,
+    n: number,
+    instance: number,
+    measure: Measure,
+    row: Readonly<Record<string, unknown>>,
+    rowCensored: boolean,
+  ): void => {
+    const key = cellKey(family, kind, method, runLength, n) + sep + measure;
+    const raw = row[measure];
+    let value = typeof raw === "number" ? raw : NaN;
+    let censored = rowCensored;
+    // A TTS from a row without success is a lower bound (p = 0 gives an infinite or bound-only TTS).
+    if ((measure === "tts_ns" || measure === "tts_work") && (row["successes"] === 0 || row["p"] === 0)) censored = true;
+    // Likewise an amplified trial that never succeeded (p = 0): its cost is unbounded, at least its low end; the
+    // instance counts as censored instead of dropping out of the median (which would bias it low) and the run
+    // length stays on the scanned grid (the run-length edge rule needs it).
+    if ((measure === "queries" || measure === "steps") && row["p"] === 0 && !Number.isFinite(value)) censored = true;
+    if (!Number.isFinite(value) && (censored || value === Infinity)) {
+      censored = true;
+      const lowName = lowColumn(measure);
+      const low = lowName === null ? NaN : row[lowName];
+      value = typeof low === "number" && Number.isFinite(low) ? low : 0;
+    } else if (!Number.isFinite(value)) {
+      value = NaN;
+    }
+    let group = groups.get(key);
+    if (group === undefined) {
+      group = { family, kind, method, runLength, n, measure, obs: new Map(), missing: new Set() };
+      groups.set(key, group);
+    }
+    if (Number.isNaN(value)) {
+      group.obs.delete(instance);
+      group.missing.add(instance);
+      return;
+    }
+    group.missing.delete(instance);
+    group.obs.set(instance, { value, censored });
+    errors.get(cellKey(family, kind, method, runLength, n))?.delete(instance);
+    const sk = seriesKey(family, kind, method);
+    if (!measures.has(sk)) measures.set(sk, new Set());
+    measures.get(sk)!.add(measure);
+  };
+  const addError = (family: string, kind: MethodKind, method: string, runLength: number | null, n: number, instance: number): void => {
+    const key = cellKey(family, kind, method, runLength, n);
+    if (!errors.has(key)) errors.set(key, new Set());
+    errors.get(key)!.add(instance);
+    // The last row of an instance counts: an error after a value replaces it.
+    for (const m of kind === "solver" ? RUN_MEASURES : PREDICTION_MEASURES) {
+      const group = groups.get(key + sep + m);
+      group?.obs.delete(instance);
+      group?.missing.delete(instance);
+    }
+  };
+  for (const row of runs) {
+    if (row.status === "skipped") continue; // not applicable to this instance: no observation at all
+    if (row.status === "error") {
+      addError(row.family, "solver", row.solver, row.run_length, row.n, row.instance);
+      continue;
+    }
+    const ck = cellKey(row.family, "solver", row.solver, row.run_length, row.n);
+    if (typeof row.floor_ns === "number" && Number.isFinite(row.floor_ns)) {
+      if (!floors.has(ck)) floors.set(ck, new Map());
+      floors.get(ck)!.set(row.instance, row.floor_ns);
+    }
+    for (const m of RUN_MEASURES) {
+      add(row.family, "solver", row.solver, row.run_length, row.n, row.instance, m, row as unknown as Record<string, unknown>, row.status === "censored");
+    }
+  }
+  for (const row of predictions) {
+    if (row.status === "skipped") continue;
+    if (row.status === "error") {
+      addError(row.family, "predictor", row.predictor, predictionRunLength(row), row.n, row.instance);
+      continue;
+    }
+    for (const m of PREDICTION_MEASURES) {
+      add(row.family, "predictor", row.predictor, predictionRunLength(row), row.n, row.instance, m, row, row.status === "censored");
+    }
+  }
+  // A measure that is missing in every row of a method (e.g. TTS of exhaustive search) is not a measure of it.
+  for (const [key, group] of groups) {
+    if (!measures.get(seriesKey(group.family, group.kind, group.method))?.has(group.measure)) groups.delete(key);
+  }
+  return { groups, errors, measures, floors };
+}
+
+/**
+ * The "run length" of a prediction row: the classical run length an amplified solver amplifies, or the cell
+ * parameter of a predictor with worker-side numerics (b for the spectral method, one row per b in a scan, as the
+ * predictor registry declares it); null for predictors with a single setting.
+ */
+export function predictionRunLength(row: PredictionRow): number | null {
+  if (typeof row.run_length === "number") return row.run_length;
+  const param = PREDICTORS.find((p) => p.name === row.predictor)?.cell?.param;
+  const value = param === undefined ? undefined : (row as Record<string, unknown>)[param];
+  return typeof value === "number" ? value : null;
+}
+
+export function sampleOf(group: Group): { values: number[]; censored: boolean[] } {
+  const instances = [...group.obs.keys()].sort((a, b) => a - b);
+  return {
+    values: instances.map((i) => group.obs.get(i)!.value),
+    censored: instances.map((i) => group.obs.get(i)!.censored),
+  };
+}
+
+/**
+ * Per (family, solver, n): the optimal run length. Returns a set of cell keys (family, kind, method, run length, n)
+ * that are optimal, and the rule's flag per key when the choice is uncertain.
+ */
+export function optimalRunLengths(
+  c: Collected,
+  preferred: Measure,
+): { optimal: Set<string>; flags: Map<string, string>; candidates: Map<string, SizeRunLengths[]> } {
+  const cells = new Map<string, { family: string; kind: MethodKind; method: string; runLength: number | null; n: number }>();
+  for (const g of c.groups.values()) {
+    cells.set(cellKey(g.family, g.kind, g.method, g.runLength, g.n), g);
+  }
+  for (const key of c.errors.keys()) {
+    const [family, kind, method, rl, n] = key.split(sep) as [string, MethodKind, string, string, string];
+    if (!cells.has(key)) cells.set(key, { family, kind, method, runLength: rl === "" ? null : Number(rl), n: Number(n) });
+  }
+  const bySize = new Map<string, Array<{ runLength: number | null; key: string }>>();
+  for (const [key, cell] of cells) {
+    const sizeKey = [cell.family, cell.kind, cell.method, cell.n].join(sep);
+    if (!bySize.has(sizeKey)) bySize.set(sizeKey, []);
+    bySize.get(sizeKey)!.push({ runLength: cell.runLength, key });
+  }
+  const optimal = new Set<string>();
+  const flags = new Map<string, string>();
+  const candidates = new Map<string, SizeRunLengths[]>();
+  for (const [sizeKey, list] of bySize) {
+    const [family, kind, method, n] = sizeKey.split(sep) as [string, MethodKind, string, string];
+    const sk = seriesKey(family, kind, method);
+    if (!candidates.has(sk)) candidates.set(sk, []);
+    const points: Array<{ runLength: number; tts: number | null }> = [];
+    candidates.get(sk)!.push({ n: Number(n), points });
+    if (list.length === 1) {
+      optimal.add(list[0]!.key);
+      if (list[0]!.runLength !== null) points.push({ runLength: list[0]!.runLength, tts: null });
+      continue;
+    }
+    const seriesMeasures = c.measures.get(seriesKey(family, kind, method)) ?? new Set<Measure>();
+    // Amplified solvers: the run length that needs the fewest classical steps in all (longer runs always need
+    // fewer amplified runs); the spectral b: the fewest queries.
+    const preference = kind === "predictor" ? ["steps", "queries"] : [preferred, "tts_work", "tts_ns", "work", "wall_ns"];
+    const measure = preference.find((m) => seriesMeasures.has(m as Measure)) as Measure | undefined;
+    let best: { key: string; value: number; defined: boolean; runLength: number } | null = null;
+    for (const { runLength, key } of list) {
+      const group = measure === undefined ? undefined : c.groups.get(key + sep + measure);
+      if (group === undefined || group.obs.size === 0) {
+        // Scanned but without a value (every instance missing or an error): still a point of the grid.
+        if (runLength !== null) points.push({ runLength, tts: null });
+        continue;
+      }
+      const s = sampleOf(group);
+      const med = censoredQuantile(s.values, s.censored, 0.5);
+      const defined = med.value !== null;
+      const value = defined ? med.value! : med.lower;
+      const rl = runLength ?? -Infinity;
+      if (runLength !== null) points.push({ runLength, tts: defined ? value : null });
+      const better =
+        best === null ||
+        (defined && !best.defined) ||
+        (defined === best.defined && (value < best.value || (value === best.value && rl < best.runLength)));
+      if (better) best = { key, value, defined, runLength: rl };
+    }
+    if (best === null) continue;
+    optimal.add(best.key);
+    if (!best.defined) flags.set(best.key, `no run length has a defined median ${measure}; chose the smallest lower bound`);
+  }
+  return { optimal, flags, candidates };
+}
