@@ -106,7 +106,13 @@ export function resolveFamilyParams(argv: Argv, family: string): FamilyParams {
  * Every size limit of a study, checked once here at the edge (exit code 2): what the family can draw, what
  * the ground-truth solver can enumerate, and what each predictor's numerics can hold.
  */
-export function checkLimits(family: Family, params: FamilyParams, sizes: ReadonlyArray<number>, predictors: ReadonlyArray<string>, folder: boolean): void {
+export function checkLimits(
+  family: Family,
+  params: FamilyParams,
+  sizes: ReadonlyArray<number>,
+  predictors: ReadonlyArray<string>,
+  folderFiles: ReadonlyArray<{ readonly file: string; readonly n: number }> | null,
+): void {
   for (const n of sizes) {
     const why = family.checkSize(n, params);
     if (why !== null) throw new InputError(why);
@@ -116,7 +122,8 @@ export function checkLimits(family: Family, params: FamilyParams, sizes: Readonl
   const exact = groundTruthSolver(family.kind, symmetric, largest);
   const limit = exact.maxSize(family.kind, symmetric);
   if (largest > limit) {
-    const where = folder ? `--from: a file has n = ${largest}` : `--n: size ${largest}`;
+    // A folder study names the (first) file that is too large, so the user knows which one to drop.
+    const where = folderFiles ? `--from: ${folderFiles.find((f) => f.n === largest)?.file}: n = ${largest}` : `--n: size ${largest}`;
     throw new InputError(`${where} is beyond the exact ground-truth limit of ${limit} for this family (the largest n an exact solver accepts: ${exact.name})`);
   }
   for (const name of predictors) {
@@ -170,7 +177,7 @@ export function resolveStudy(argv: Argv): StudySpec {
     if (argv.predict !== undefined) throw new InputError(`--predict: ${why}`);
     predictors.splice(predictors.indexOf(name), 1);
   }
-  checkLimits(fam, familyParams, sizes, predictors, folder);
+  checkLimits(fam, familyParams, sizes, predictors, folder ? files : null);
   const walkFlipsText = String(argv["walk-flips"] ?? spec("walk-flips").default);
   const wf = /^(\d+(?:\.\d+)?)n$/.exec(walkFlipsText);
   if (!wf) throw new InputError(`--walk-flips: '${walkFlipsText}' is not of the form Kn (e.g. 3n)`);
@@ -202,15 +209,7 @@ export function resolveStudy(argv: Argv): StudySpec {
     }
     beta = [parts[0], parts[1]];
   }
-  let bValues = [numberOption(argv, "spectral-b") as number];
-  if (argv["spectral-b-scan"] !== undefined) {
-    const parts = String(argv["spectral-b-scan"]).split(":").map(Number);
-    if (parts.length !== 3 || !parts.every(Number.isFinite) || parts[2] <= 0 || parts[1] < parts[0] || parts[0] < 0) {
-      throw new InputError(`--spectral-b-scan: '${String(argv["spectral-b-scan"])}' is not FROM:TO:STEP with 0 ≤ FROM ≤ TO and STEP > 0`);
-    }
-    bValues = [];
-    for (let i = 0; parts[0] + i * parts[2] <= parts[1] + 1e-12; i++) bValues.push(Number((parts[0] + i * parts[2]).toPrecision(12)));
-  }
+  const bValues = resolveBValues(argv);
   const study: StudySpec = {
     family,
     familyParams,
@@ -279,6 +278,25 @@ function resolveBaselines(argv: Argv, solvers: ReadonlyArray<string>): Pick<Stud
     ...(solvers.includes("tempering") ? { tempering: { replicas, sweeps, beta } } : {}),
     ...(external.length > 0 ? { external } : {}),
   };
+}
+
+/**
+ * The spectral filter strengths: `--spectral-b-scan FROM:TO:STEP` when given (it overrides `--spectral-b`), else
+ * `--spectral-b`. Used by `run` (one cell per b) and `spectral` (one result per b).
+ */
+export function resolveBValues(argv: Argv): number[] {
+  if (argv["spectral-b-scan"] === undefined) return [numberOption(argv, "spectral-b") as number];
+  const text = String(argv["spectral-b-scan"]);
+  const parts = text.split(":").map((p) => (p.trim() === "" ? NaN : Number(p)));
+  if (parts.length !== 3 || !parts.every(Number.isFinite) || parts[2] <= 0 || parts[1] < parts[0] || parts[0] < 0) {
+    throw new InputError(`--spectral-b-scan: '${text}' is not FROM:TO:STEP with 0 ≤ FROM ≤ TO and STEP > 0`);
+  }
+  const values: number[] = [];
+  for (let i = 0; parts[0] + i * parts[2] <= parts[1] + 1e-12; i++) {
+    values.push(Number((parts[0] + i * parts[2]).toPrecision(12)));
+    if (values.length > 10_000) throw new InputError(`--spectral-b-scan: '${text}' gives more than 10000 values of b`);
+  }
+  return values;
 }
 
 /** A numeric option that has no default: null when not given. */

@@ -4,8 +4,9 @@
  * killed process loses nothing the kernel has), and fsync'ed every {@link SYNC_EVERY_RECORDS} records or
  * {@link SYNC_EVERY_MS} ms, whichever comes first (so a power cut loses at most that much).
  */
-import { closeSync, existsSync, fsyncSync, openSync, readFileSync, truncateSync, writeSync } from "node:fs";
+import { closeSync, existsSync, fsyncSync, openSync, readFileSync, truncateSync } from "node:fs";
 import type { CellStatus } from "../types.js";
+import { appendWholeOrNothing, guardWrite } from "./fs-guard.js";
 
 /** fsync batch size (records). */
 export const SYNC_EVERY_RECORDS = 32;
@@ -140,13 +141,14 @@ export class JournalWriter {
   private unsynced = 0;
   private lastSync = Date.now();
 
-  constructor(path: string) {
-    this.fd = openSync(path, "a");
+  constructor(private readonly path: string) {
+    this.fd = guardWrite(path, path, () => openSync(path, "a"));
   }
 
   /** Writes one record (one line) now; syncs by batch. */
   append(record: JournalRecord): void {
-    writeSync(this.fd, JSON.stringify(record) + "\n");
+    // Whole line or nothing: a full disk must not leave half a record that a later append would continue.
+    appendWholeOrNothing(this.fd, JSON.stringify(record) + "\n", this.path);
     this.unsynced++;
     if (this.unsynced >= SYNC_EVERY_RECORDS || Date.now() - this.lastSync >= SYNC_EVERY_MS) this.sync();
   }
@@ -154,13 +156,16 @@ export class JournalWriter {
   /** Forces buffered records to disk. */
   sync(): void {
     if (this.unsynced === 0) return;
-    fsyncSync(this.fd);
+    guardWrite(this.path, this.path, () => fsyncSync(this.fd));
     this.unsynced = 0;
     this.lastSync = Date.now();
   }
 
   close(): void {
-    this.sync();
-    closeSync(this.fd);
+    try {
+      this.sync();
+    } finally {
+      closeSync(this.fd);
+    }
   }
 }

@@ -14,7 +14,7 @@ export async function merge(argv: Args, rawArgs: ReadonlyArray<string>): Promise
   const out = resolve(String(argv.out));
   const dirs = ((argv.dirs as string[] | undefined) ?? []).map((d) => resolve(d));
   const merged = mergeShards(dirs);
-  mkdirOrFail(out);
+  mkdirOrFail(out, "merge");
   writeMerged(out, merged);
   const started = new Date();
   const { paper } = await writeOutputs(merged.spec, out);
