@@ -50,7 +50,7 @@ export function computeGroundTruthHere(problem: Problem, workers: number, stop: 
   const answers: TruthSliceAnswer[] = exact.plan(problem, workers).map((part) => {
     const start = process.hrtime.bigint();
     const result = exact.run(problem, part, stop);
-    return { result, wall_ns: Number(process.hrtime.bigint() - start), floor_ns: null, meta: {}, seed: "", mean: meanCost(problem) };
+    return { result, wall_ns: Number(process.hrtime.bigint() - start), start_ns: String(start), floor_ns: null, meta: {}, seed: "", mean: meanCost(problem) };
   });
   return { merged: exact.merge(answers.map((a) => a.result), costTolerance(problem)), answers, solver: exact.name };
 }

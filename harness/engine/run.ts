@@ -14,7 +14,7 @@ import type { Progress } from "./progress.js";
 import { OUT_FILES, prepareOutput } from "./output-folder.js";
 import type { RunSummary } from "./run-summary.js";
 import { type Cell, type InstanceRef, type StudySpec, cellsOfInstance, instancesOf, methodOptionsOf, shardInstances, solverStudyOf } from "./study.js";
-import type { PredictAnswer, TrialsAnswer } from "./tasks.js";
+import type { PredictAnswer, TrialsAnswer, TruthSliceAnswer } from "./tasks.js";
 import { trialsSolverNamed } from "../../solvers/registry.js";
 import { familyNamed, materialise } from "../families/registry.js";
 import { costTolerance } from "../model/problem.js";
@@ -89,11 +89,12 @@ export async function runStudy(spec: StudySpec, options: RunOptions): Promise<Ru
         // except for --satisfiable/--unique, which the first worker answer would repeat anyway.
         const problem = materialise(ctxOf(inst)).problem;
         const { merged, answers } = await computeGroundTruth(pool, problem, ctxOf(inst), options.workers, flag);
+        const elapsed = slicesElapsed(answers);
         const wall = answers.reduce((s, a) => s + a.wall_ns, 0);
         const floor = answers.every((a) => a.floor_ns !== null) ? answers.reduce((s, a) => s + (a.floor_ns ?? 0), 0) : null;
         const status = merged.complete ? "ok" : "censored";
         return {
-          ...base, status, wall_ns: wall, message: status === "ok" ? "" : "stopped by a time limit",
+          ...base, status, wall_ns: wall, elapsed_ns: elapsed, message: status === "ok" ? "" : "stopped by a time limit",
           seed: answers[0].seed, meta: answers[0].meta,
           optimum: merged.complete ? merged.optimum : null,
           degeneracy: merged.complete ? merged.degeneracy : null,
@@ -244,4 +245,21 @@ export function messageOf(e: unknown): string {
 function killAtTestPoint(records: number): void {
   const at = process.env.SPEEDBOUND_TEST_KILL_AT;
   if (at !== undefined && records === Number(at)) process.kill(process.pid, "SIGKILL");
+}
+
+/**
+ * Elapsed (wall-clock) time of a ground-truth cell, ns: from the first slice's start to the last slice's end over
+ * the parallel workers (time a slice waited in the pool's queue before its start is not counted). The slices'
+ * own times summed are the cell's CPU time (`wall_ns` of the truth record, runs.csv `cpu_ns`).
+ */
+function slicesElapsed(answers: ReadonlyArray<TruthSliceAnswer>): number {
+  let first = BigInt(answers[0].start_ns);
+  let last = first + BigInt(Math.round(answers[0].wall_ns));
+  for (const a of answers) {
+    const start = BigInt(a.start_ns);
+    const end = start + BigInt(Math.round(a.wall_ns));
+    if (start < first) first = start;
+    if (end > last) last = end;
+  }
+  return Number(last - first);
 }
