@@ -9,12 +9,12 @@ import type { InstanceContext } from "../families/registry.js";
 import { JournalWriter, readJournal, type JournalRecord, type RunRecord, type SpectralRecord, type TruthRecord } from "./journal.js";
 import { WorkerPool } from "./pool.js";
 import { StopControl } from "./stop.js";
-import { computeGroundTruth } from "./ground-truth.js";
+import { computeGroundTruth, slicesElapsed } from "./ground-truth.js";
 import type { Progress } from "./progress.js";
 import { OUT_FILES, prepareOutput } from "./output-folder.js";
 import type { RunSummary } from "./run-summary.js";
 import { type Cell, type InstanceRef, type StudySpec, cellsOfInstance, instancesOf, methodOptionsOf, shardInstances, solverStudyOf } from "./study.js";
-import type { PredictAnswer, TrialsAnswer, TruthSliceAnswer } from "./tasks.js";
+import type { PredictAnswer, TrialsAnswer } from "./tasks.js";
 import { trialsSolverNamed } from "../../solvers/registry.js";
 import { familyNamed, materialise } from "../families/registry.js";
 import { costTolerance } from "../model/problem.js";
@@ -247,19 +247,3 @@ function killAtTestPoint(records: number): void {
   if (at !== undefined && records === Number(at)) process.kill(process.pid, "SIGKILL");
 }
 
-/**
- * Elapsed (wall-clock) time of a ground-truth cell, ns: from the first slice's start to the last slice's end over
- * the parallel workers (time a slice waited in the pool's queue before its start is not counted). The slices'
- * own times summed are the cell's CPU time (`wall_ns` of the truth record, runs.csv `cpu_ns`).
- */
-function slicesElapsed(answers: ReadonlyArray<TruthSliceAnswer>): number {
-  let first = BigInt(answers[0].start_ns);
-  let last = first + BigInt(Math.round(answers[0].wall_ns));
-  for (const a of answers) {
-    const start = BigInt(a.start_ns);
-    const end = start + BigInt(Math.round(a.wall_ns));
-    if (start < first) first = start;
-    if (end > last) last = end;
-  }
-  return Number(last - first);
-}
