@@ -50,7 +50,24 @@ export function computeGroundTruthHere(problem: Problem, workers: number, stop: 
   const answers: TruthSliceAnswer[] = exact.plan(problem, workers).map((part) => {
     const start = process.hrtime.bigint();
     const result = exact.run(problem, part, stop);
-    return { result, wall_ns: Number(process.hrtime.bigint() - start), floor_ns: null, meta: {}, seed: "", mean: meanCost(problem) };
+    return { result, wall_ns: Number(process.hrtime.bigint() - start), start_ns: String(start), floor_ns: null, meta: {}, seed: "", mean: meanCost(problem) };
   });
   return { merged: exact.merge(answers.map((a) => a.result), costTolerance(problem)), answers, solver: exact.name };
+}
+
+/**
+ * Elapsed (wall-clock) time of a ground-truth cell, ns: from the first slice's start to the last slice's end over
+ * the parallel workers (time a slice waited in the pool's queue before its start is not counted). The slices'
+ * own times summed are the cell's CPU time (`wall_ns` of the truth record, runs.csv `cpu_ns`).
+ */
+export function slicesElapsed(answers: ReadonlyArray<TruthSliceAnswer>): number {
+  let first = BigInt(answers[0].start_ns);
+  let last = first + BigInt(Math.round(answers[0].wall_ns));
+  for (const a of answers) {
+    const start = BigInt(a.start_ns);
+    const end = start + BigInt(Math.round(a.wall_ns));
+    if (start < first) first = start;
+    if (end > last) last = end;
+  }
+  return Number(last - first);
 }

@@ -37,6 +37,12 @@ export interface TruthRecord extends RecordBase {
   /** Fixed per-cell cost (sum over slices of a one-configuration call), ns; absent in older journals. */
   readonly floor_ns?: number | null;
   readonly mean: number | null;
+  /**
+   * Elapsed time of the cell, ns, from dispatching its first slice to merging its last (runs.csv `wall_ns`);
+   * `wall_ns` of a truth record is the sum over its parallel slices (runs.csv `cpu_ns`). Absent in journals written
+   * before it was recorded: their runs.csv `wall_ns` stays empty.
+   */
+  readonly elapsed_ns?: number;
   // --- issue 16 (exact counting); absent in journals written before it (read as enumeration) ---
   /** "enumeration", "count" (model counter) or "maxsat" (branch and bound). */
   readonly truth_method?: string;

@@ -9,7 +9,7 @@ import type { InstanceContext } from "../families/registry.js";
 import { JournalWriter, readJournal, type JournalRecord, type RunRecord, type SpectralRecord, type TruthRecord } from "./journal.js";
 import { WorkerPool } from "./pool.js";
 import { StopControl } from "./stop.js";
-import { computeGroundTruth } from "./ground-truth.js";
+import { computeGroundTruth, slicesElapsed } from "./ground-truth.js";
 import type { Progress } from "./progress.js";
 import { InputError } from "../errors.js";
 import { OUT_FILES, prepareOutput } from "./output-folder.js";
@@ -111,11 +111,12 @@ async function runLocked(spec: StudySpec, options: RunOptions): Promise<RunSumma
         // Generation counts against the budget and the cell limit (see StopControl.generationCheck).
         const problem = withDrawStop(stop.generationCheck(), () => materialise(ctxOf(inst))).problem;
         const { merged, answers } = await computeGroundTruth(pool, problem, ctxOf(inst), options.workers, flag);
+        const elapsed = slicesElapsed(answers);
         const wall = answers.reduce((s, a) => s + a.wall_ns, 0);
         const floor = answers.every((a) => a.floor_ns !== null) ? answers.reduce((s, a) => s + (a.floor_ns ?? 0), 0) : null;
         const status = merged.complete ? "ok" : "censored";
         return {
-          ...base, status, wall_ns: wall, message: status === "ok" ? "" : "stopped by a time limit",
+          ...base, status, wall_ns: wall, elapsed_ns: elapsed, message: status === "ok" ? "" : "stopped by a time limit",
           seed: answers[0].seed, meta: answers[0].meta,
           optimum: merged.complete ? merged.optimum : null,
           degeneracy: merged.complete ? merged.degeneracy : null,
@@ -270,3 +271,4 @@ function killAtTestPoint(records: number): void {
   const at = process.env.SPEEDBOUND_TEST_KILL_AT;
   if (at !== undefined && records === Number(at)) process.kill(process.pid, "SIGKILL");
 }
+

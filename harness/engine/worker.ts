@@ -65,7 +65,7 @@ export default function handle(task: Task): TruthSliceAnswer | TrialsAnswer | Pr
       // Zero-length run: the solver's smallest part of the same shape (one configuration for enumeration).
       const least = solver.leastPart?.(inst.problem, task.part);
       const floor_ns = least === undefined ? null : floorOf(() => solver.run(inst.problem, least, null));
-      return { result, wall_ns, floor_ns, meta: inst.meta, seed: inst.seed, mean: meanCost(inst.problem) };
+      return { result, wall_ns, start_ns: String(start), floor_ns, meta: inst.meta, seed: inst.seed, mean: meanCost(inst.problem) };
     }
     case "trials": {
       injectFault(task.ctx);
