@@ -29,7 +29,14 @@ export interface RunRow {
   /** Run length parameter (sweeps for anneal, max flips per trial for walk, empty for exhaustive). */
   run_length: number | null;
   status: CellStatus;
-  wall_ns: number;
+  /**
+   * Elapsed (wall-clock) time of the cell, ns: for exhaustive and the counting methods from the first slice's start
+   * to the last slice's end over the parallel workers (empty for journals written before it was recorded); for a
+   * solver's cell (one worker) the same as cpu_ns.
+   */
+  wall_ns: number | null;
+  /** CPU time of the cell, ns: the sum over its parallel slices (exhaustive, counting), else its one worker's time. */
+  cpu_ns: number;
   /**
    * Elementary work really done: assignments evaluated for exhaustive (pruned ones not counted; older journals:
    * assignments covered), flips for walk, flip attempts for anneal.
@@ -39,13 +46,13 @@ export interface RunRow {
   floor_ns: number | null;
   trials: number | null;
   successes: number | null;
-  /** Per-trial success probability and its Wilson 95% interval. */
-  p: number | null;
-  p_low: number | null;
-  p_high: number | null;
+  /** Probability that one trial (one run of the solver at this run length) succeeds, and its Wilson 95% interval. */
+  trial_success_p: number | null;
+  trial_success_p_low: number | null;
+  trial_success_p_high: number | null;
   work_per_trial: number | null;
   wall_ns_per_trial: number | null;
-  /** Time to solution with 99% confidence, ns, and its interval from p's interval. */
+  /** Time to solution with 99% confidence, ns (CPU time: from cpu_ns), and its interval from trial_success_p's interval. */
   tts_ns: number | null;
   tts_ns_low: number | null;
   tts_ns_high: number | null;
@@ -68,7 +75,7 @@ export interface PredictionRow {
   queries_log2: number | null;
   queries_low: number | null;
   queries_high: number | null;
-  /** Predictor-specific parts (theta, k_star, rounds, gap, …), serialised as their own columns. */
+  /** Predictor-specific parts (theta, k_star, amplification_rounds, gap, …; tables.ts names them), serialised as their own columns. */
   [extra: string]: string | number | boolean | null;
 }
 

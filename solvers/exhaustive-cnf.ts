@@ -25,7 +25,7 @@
  * the time grow much more slowly than 2^n on random 3-SAT (n = 40 in milliseconds); `skipping: "block"` keeps
  * the plain enumerator whose time grows as 2^n.
  */
-import { walksatBound } from "./maxsat-bound.js";
+import { walksatBound } from "./local-search-upper-bound.js";
 import type { Cnf } from "../harness/model/cnf.js";
 import type { ExactResult, StopFlag } from "./types.js";
 

@@ -5,6 +5,7 @@
  */
 import { annealSolver } from "./anneal.js";
 import { breakwalkSolver } from "./breakwalk.js";
+import { COUNT_SWITCH_VARIABLES, countSolver } from "./exact-cnf-truth.js";
 import { exhaustiveSolver } from "./exhaustive.js";
 import { temperingSolver } from "./tempering.js";
 import type { ExactSolver, ProblemKind, Solver, TrialsSolver } from "./types.js";
@@ -12,7 +13,10 @@ import { walkSolver } from "./walk.js";
 
 /** Every registered solver, in the order `--help` lists them (the exact ground-truth solvers first). */
 export const SOLVERS: ReadonlyArray<Solver> = [
-  exhaustiveSolver,
+  // Ground truth is the first exact solver whose limit allows n (see groundTruthSolver): CNF formulas are
+  // enumerated up to n = COUNT_SWITCH_VARIABLES, where enumeration is as fast as counting, and counted beyond.
+  capCnf(exhaustiveSolver, COUNT_SWITCH_VARIABLES),
+  countSolver,
   walkSolver,
   breakwalkSolver,
   annealSolver,
@@ -27,7 +31,9 @@ export const SOLVER_NAMES: ReadonlyArray<string> = SOLVERS.map((s) => s.name);
  * randomised solver whose `defaultFor` names the kind, in registry order.
  */
 export function defaultSolvers(kind: ProblemKind): string[] {
-  return SOLVERS.filter((s) => s.kind === "exact" || (s.defaultFor ?? []).includes(kind)).map((s) => s.name);
+  // Of the exact solvers only the first for the kind is named: the others take over beyond its limit by themselves.
+  const exact = SOLVERS.find((s) => s.kind === "exact" && s.maxSize(kind, false) > 0);
+  return SOLVERS.filter((s) => s === exact || (s.kind === "trials" && (s.defaultFor ?? []).includes(kind))).map((s) => s.name);
 }
 
 /** The randomised solver of that name; throws (an internal error: names are validated at the edge). */
@@ -44,8 +50,24 @@ export function exactSolverNamed(name: string): ExactSolver<any> { // eslint-dis
   return s;
 }
 
-/** The exact solver that computes the ground truth of a problem: the first registered one whose limit allows it. */
+/** Names of the exact (ground-truth) solvers: they always run, so `--solvers` may name them but never schedules them. */
+export const EXACT_SOLVER_NAMES: ReadonlyArray<string> = SOLVERS.filter((s) => s.kind === "exact").map((s) => s.name);
+
+/**
+ * The exact solver that computes the ground truth of a problem: the first registered one whose limit allows
+ * it; beyond every limit, the one with the largest limit (whose refusal names that limit).
+ */
 export function groundTruthSolver(kind: ProblemKind, flipSymmetric: boolean, n: number): ExactSolver<any> { // eslint-disable-line @typescript-eslint/no-explicit-any
-  for (const s of SOLVERS) if (s.kind === "exact" && n <= s.maxSize(kind, flipSymmetric)) return s;
-  return exhaustiveSolver;
+  let widest: ExactSolver<any> | null = null; // eslint-disable-line @typescript-eslint/no-explicit-any
+  for (const s of SOLVERS) {
+    if (s.kind !== "exact") continue;
+    if (n <= s.maxSize(kind, flipSymmetric)) return s;
+    if (widest === null || s.maxSize(kind, flipSymmetric) > widest.maxSize(kind, flipSymmetric)) widest = s;
+  }
+  return widest ?? exhaustiveSolver;
+}
+
+/** The same exact solver with its CNF limit lowered to `n` (the size where the next exact solver takes over). */
+function capCnf<P>(solver: ExactSolver<P>, n: number): ExactSolver<P> {
+  return { ...solver, maxSize: (kind, flipSymmetric) => (kind === "cnf" ? Math.min(n, solver.maxSize(kind, flipSymmetric)) : solver.maxSize(kind, flipSymmetric)) };
 }

@@ -31,6 +31,14 @@ export interface ExactResult {
   readonly evaluated: number;
   /** False when the stop flag cut the enumeration short. */
   readonly complete: boolean;
+  // --- issue 16 (exact counting): set by solvers/exact-cnf-truth.ts, absent for enumeration ---
+  /** How the truth was computed: "count" (model counter) or "maxsat" (branch and bound); absent = enumeration. */
+  readonly method?: "count" | "maxsat";
+  /** The degeneracy as an exact decimal (it may exceed 2^53, where `degeneracy` is rounded). */
+  readonly degeneracyExact?: string;
+  /** Decisions made by the counting methods. */
+  readonly nodes?: number;
+  // --- end issue 16 ---
 }
 
 /** Result of many independent trials of a randomised solver on one instance at one run length. */

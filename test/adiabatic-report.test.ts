@@ -96,10 +96,10 @@ describe("memory limit at the edge, through the predictor cell's memory rule", (
     const params = { k: 3, density: 4.267, planted: false, satisfiable: false, unique: false };
     // 6 vectors × 8 B + 1 B cost (111 clauses ≤ 255) = 49 B per amplitude; 49·2^26 B + 16 MiB = 3.08 GiB.
     const gib = 1024 ** 3;
-    expect(() => checkLimits(fam, params, [26], ["adiabatic"], false, { "spectral-memory": gib })).toThrow(InputError);
-    expect(() => checkLimits(fam, params, [26], ["adiabatic"], false, { "spectral-memory": gib }))
+    expect(() => checkLimits(fam, params, [26], ["adiabatic"], null, { "spectral-memory": gib })).toThrow(InputError);
+    expect(() => checkLimits(fam, params, [26], ["adiabatic"], null, { "spectral-memory": gib }))
       .toThrow(/--predict: adiabatic at n = 26 needs 3\.08 GiB \(49 bytes per amplitude × 2\^26\), but --spectral-memory allows 1\.00 GiB/);
-    expect(() => checkLimits(fam, params, [26], ["spectral", "adiabatic"], false, { "spectral-memory": 4 * gib })).not.toThrow();
+    expect(() => checkLimits(fam, params, [26], ["spectral", "adiabatic"], null, { "spectral-memory": 4 * gib })).not.toThrow();
   });
 
   it("SK uses the flip-symmetric sector: 28 bytes per amplitude of the full space", () => {

@@ -33,8 +33,10 @@ const cases: Array<{ name: string; args: (out: string) => string[]; pattern: Reg
   { name: "unknown family", args: (o) => ["run", "--family", "tsp", "--out", o], pattern: /--family: unknown family 'tsp'/ },
   { name: "unknown solver", args: (o) => ["run", "--solvers", "exhaustive,tabu", "--out", o], pattern: /--solvers: unknown value 'tabu'/ },
   { name: "unknown predictor", args: (o) => ["run", "--predict", "qaoa", "--out", o], pattern: /--predict: unknown value 'qaoa'/ },
-  { name: "unknown option", args: (o) => ["run", "--sizes", "10", "--out", o], pattern: /Unknown argument: sizes/ },
-  { name: "size beyond the exact limit", args: (o) => ["run", "--n", "30:70:10", "--out", o], pattern: /--n: size 70 is beyond the exact-enumeration limit/ },
+  { name: "unknown option", args: (o) => ["run", "--sizes", "10", "--out", o], pattern: /unknown option --sizes/ },
+  // issue 16: CNF ground truth is counted beyond enumeration, up to n = 200; spin families keep the enumeration limit.
+  { name: "size beyond the exact limit", args: (o) => ["run", "--n", "190:210:10", "--out", o], pattern: /--n: size 210 is beyond the exact ground-truth limit of 200 for this family \(the largest n an exact solver accepts: count\)/ },
+  { name: "spin size beyond the enumeration limit", args: (o) => ["run", "--family", "sk", "--n", "30:70:10", "--out", o], pattern: /--n: size 70 is beyond the exact ground-truth limit of 40 for this family \(the largest n an exact solver accepts: exhaustive\)/ },
   // 49 bytes per amplitude for 3-SAT (README, "Memory of the state-vector numerics"): 49·2^26 B + 16 MiB = 3.08 GiB.
   { name: "spectral beyond its memory allowance", args: (o) => ["run", "--family", "ksat", "--n", "20:26:2", "--predict", "spectral", "--spectral-memory", "1", "--out", o], pattern: /--predict: spectral at n = 26 needs 3\.08 GiB \(49 bytes per amplitude × 2\^26\), but --spectral-memory allows 1\.00 GiB/ },
   { name: "adiabatic beyond its memory allowance", args: (o) => ["run", "--family", "sk", "--n", "20:24:2", "--predict", "adiabatic", "--spectral-memory", "256MiB", "--out", o], pattern: /--predict: adiabatic at n = 24 needs 464\.0 MiB \(28 bytes per amplitude × 2\^24\), but --spectral-memory allows 256\.0 MiB/ },
@@ -51,9 +53,9 @@ const cases: Array<{ name: string; args: (out: string) => string[]; pattern: Reg
   { name: "bad shard", args: (o) => ["run", "--shard", "4/3", "--out", o], pattern: /--shard: need 1 ≤ K ≤ N/ },
   { name: "broken file to solve", args: () => ["solve", join(root, "broken.cnf")], pattern: /broken\.cnf:3: non-numeric token 'x'/ },
   { name: "missing file to solve", args: () => ["solve", join(root, "absent.cnf")], pattern: /absent\.cnf: cannot read \(ENOENT\)/ },
-  { name: "output folder under a file", args: () => ["run", "--n", "8", "--out", join(root, "notafolder", "sub")], pattern: /--out: cannot create '.*notafolder\/sub' \(ENOTDIR\)/ },
+  { name: "output folder under a file", args: () => ["run", "--n", "8", "--out", join(root, "notafolder", "sub")], pattern: /--out: '.*notafolder\/sub': cannot create \('.*notafolder' is a file, not a folder\)/ },
   // Root may write anywhere, so an unwritable folder cannot be made for root (the CI user).
-  { name: "unwritable output folder", args: () => ["run", "--n", "8", "--out", join(root, "readonly", "sub")], pattern: /--out: cannot create/, skip: asRoot },
+  { name: "unwritable output folder", args: () => ["run", "--n", "8", "--out", join(root, "readonly", "sub")], pattern: /--out: '.*readonly\/sub': cannot create \(permission denied, EACCES\)/, skip: asRoot },
 ];
 
 describe("bad input", () => {

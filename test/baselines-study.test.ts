@@ -31,7 +31,7 @@ describe("baselines in a study", () => {
         expect(row[col("successes")]).toBe("20"); // n ≤ 12 with a cap of 1000n flips
         expect(row[col("breakwalk_rule")]).toBe("poly cb=2.38 eps=1");
         expect(Number(row[col("rld_median_flips")])).toBeGreaterThanOrEqual(0);
-        expect(Number(row[col("rld_best_p")])).toBeGreaterThan(0);
+        expect(Number(row[col("rld_best_trial_success_p")])).toBeGreaterThan(0);
       } else {
         expect(row[col("status")]).toBe("skipped");
       }

@@ -152,8 +152,8 @@ describe("instances figure", () => {
     // ρ = 1 − 6·Σd²/(m(m² − 1)) = 1 − 12/120 = 0.9 (Spearman's formula without ties).
     const n = 20;
     const runs: RunRow[] = [1, 2, 3, 4, 5].map((k, i) => ({
-      family: "sk", n, instance: i, solver: "anneal", run_length: 100, status: "ok", wall_ns: 1e6 * k, work: 1, floor_ns: null,
-      trials: 10, successes: 5, p: 0.5, p_low: 0.2, p_high: 0.8, work_per_trial: 1, wall_ns_per_trial: 1, tts_ns: 1e6 * k,
+      family: "sk", n, instance: i, solver: "anneal", run_length: 100, status: "ok", wall_ns: 1e6 * k, cpu_ns: 1e6 * k, work: 1, floor_ns: null,
+      trials: 10, successes: 5, trial_success_p: 0.5, trial_success_p_low: 0.2, trial_success_p_high: 0.8, work_per_trial: 1, wall_ns_per_trial: 1, tts_ns: 1e6 * k,
       tts_ns_low: null, tts_ns_high: null, tts_work: 1, tts_work_low: null, message: "",
     }));
     const q = [1, 3, 2, 4, 5];

@@ -104,20 +104,29 @@ describe("golden tables of two small studies", () => {
   // poly_degree, aic_exponential, aic_polynomial, growth_model, floor_factor, below_floor and exponent_status;
   // comparison.csv gains basis, quantum_measure, n_from, n_to, rated, extrapolated and flags. The other files
   // keep the layout pinned at b9834a9. Issue 12 added breakwalk's columns (its flip rule and run-length summary) and
-  // tempering's (replicas and exchange acceptance) after the shared ones.
+  // tempering's (replicas and exchange acceptance) after the shared ones; issue 16 (exact counting) adds
+  // truth_method to instances.csv after degeneracy (ksat and sk).
+  // Issue 11 item 7 (names that mean one thing) renamed columns on purpose; the journal keeps its field names:
+  //   runs.csv: p, p_low, p_high → trial_success_p, trial_success_p_low, trial_success_p_high; new cpu_ns after
+  //     wall_ns (wall_ns is now elapsed time; exhaustive's old wall_ns, a sum over slices, is cpu_ns);
+  //     rld_best_p → rld_best_trial_success_p.
+  //   predictions.csv: p, p_low, p_high → trial_success_p…; success_probability → attempt_success_p; rounds →
+  //     amplification_rounds (amplified solvers) / state_preparations (spectral); iterations → grover_iterations
+  //     (grover-unknown) / lanczos_products (spectral); steps, steps_low, steps_high → expected_work, …_low, …_high.
+  //   instances.csv (pspin): p → order. sizes.csv/fits.csv measure values: wall_ns → cpu_ns, steps → expected_work.
   const HEADERS: Record<string, Record<string, string>> = {
     ksat: {
-      "instances.csv": "family,n,instance,seed,k,density,clauses,planted,rejected_draws,rejected_clauses,optimum,degeneracy,satisfiable,mean_cost,status",
-      "runs.csv": "family,n,instance,solver,run_length,status,wall_ns,work,trials,successes,p,p_low,p_high,floor_ns,work_per_trial,wall_ns_per_trial,tts_ns,tts_ns_low,tts_ns_high,tts_work,tts_work_low,message,breakwalk_rule,rld_median_flips,rld_best_cutoff,rld_best_p,rld_best_tts_flips",
-      "predictions.csv": "family,n,instance,predictor,status,queries,queries_log2,queries_low,queries_high,p,p_low,p_high,theta,rounds,trial_runs,success_probability,queries_unamplified,steps,steps_low,steps_high,reason,run_length,optima,k_star,queries_per_attempt,expected_attempts,lambda,iterations,checks,m0,bound_queries,stages_to_saturation,b,eta,e0,e1,gap,overlap_start,overlap_opt,phase_factor,residual,residual0,residual1,converged,gap_ok,gap_threshold,sector,mean_cost,optimum,wall_ns,message,b_best",
+      "instances.csv": "family,n,instance,seed,k,density,clauses,planted,rejected_draws,rejected_clauses,optimum,degeneracy,truth_method,satisfiable,mean_cost,status",
+      "runs.csv": "family,n,instance,solver,run_length,status,wall_ns,cpu_ns,work,trials,successes,trial_success_p,trial_success_p_low,trial_success_p_high,floor_ns,work_per_trial,wall_ns_per_trial,tts_ns,tts_ns_low,tts_ns_high,tts_work,tts_work_low,message,breakwalk_rule,rld_median_flips,rld_best_cutoff,rld_best_trial_success_p,rld_best_tts_flips",
+      "predictions.csv": "family,n,instance,predictor,status,queries,queries_log2,queries_low,queries_high,trial_success_p,trial_success_p_low,trial_success_p_high,theta,amplification_rounds,trial_runs,attempt_success_p,queries_unamplified,expected_work,expected_work_low,expected_work_high,reason,run_length,optima,k_star,queries_per_attempt,expected_attempts,lambda,grover_iterations,checks,m0,bound_queries,stages_to_saturation,b,eta,e0,e1,gap,overlap_start,overlap_opt,state_preparations,phase_factor,lanczos_products,residual,residual0,residual1,converged,gap_ok,gap_threshold,sector,mean_cost,optimum,wall_ns,message,b_best",
       "sizes.csv": "family,n,method_kind,method,run_length,optimal_run_length,measure,instances,censored,errors,median,median_low,median_high,q75,q75_low,q75_high,q90,q90_low,q90_high,median_at_least,floor_ns,resamples,flag",
       "fits.csv": "family,method_kind,method,measure,basis,quantile,exponent,exponent_low,exponent_high,base,base_low,base_high,intercept,r2,n_from,n_to,points,poly_degree,aic_exponential,aic_polynomial,growth_model,floor_factor,below_floor,exponent_status,run_length_rule,resamples,flag",
       "comparison.csv": "family,basis,solver,predictor,quantile,classical_measure,quantum_measure,exponent_classical,exponent_classical_low,exponent_classical_high,exponent_quantum,exponent_quantum_low,exponent_quantum_high,exponent_ratio,exponent_ratio_low,exponent_ratio_high,n_from,n_to,rated,strongest_classical,speedup_label,better_than_grover,parallelism,crossover_n,crossover_seconds,crossover,extrapolated,flags,note",
     },
     sk: {
-      "instances.csv": "family,n,instance,seed,couplings,terms,optimum,degeneracy,satisfiable,mean_cost,status",
-      "runs.csv": "family,n,instance,solver,run_length,status,wall_ns,work,trials,successes,p,p_low,p_high,floor_ns,work_per_trial,wall_ns_per_trial,tts_ns,tts_ns_low,tts_ns_high,tts_work,tts_work_low,message,replicas,exchange_acceptance,exchange_acceptance_min",
-      "predictions.csv": "family,n,instance,predictor,status,queries,queries_log2,queries_low,queries_high,p,p_low,p_high,theta,rounds,trial_runs,success_probability,queries_unamplified,steps,steps_low,steps_high,reason,run_length,optima,k_star,queries_per_attempt,expected_attempts,b,eta,e0,e1,gap,overlap_start,overlap_opt,phase_factor,iterations,residual,residual0,residual1,converged,gap_ok,gap_threshold,sector,mean_cost,optimum,wall_ns,message,b_best",
+      "instances.csv": "family,n,instance,seed,couplings,terms,optimum,degeneracy,truth_method,satisfiable,mean_cost,status",
+      "runs.csv": "family,n,instance,solver,run_length,status,wall_ns,cpu_ns,work,trials,successes,trial_success_p,trial_success_p_low,trial_success_p_high,floor_ns,work_per_trial,wall_ns_per_trial,tts_ns,tts_ns_low,tts_ns_high,tts_work,tts_work_low,message,replicas,exchange_acceptance,exchange_acceptance_min",
+      "predictions.csv": "family,n,instance,predictor,status,queries,queries_log2,queries_low,queries_high,trial_success_p,trial_success_p_low,trial_success_p_high,theta,amplification_rounds,trial_runs,attempt_success_p,queries_unamplified,expected_work,expected_work_low,expected_work_high,reason,run_length,optima,k_star,queries_per_attempt,expected_attempts,b,eta,e0,e1,gap,overlap_start,overlap_opt,state_preparations,phase_factor,lanczos_products,residual,residual0,residual1,converged,gap_ok,gap_threshold,sector,mean_cost,optimum,wall_ns,message,b_best",
     },
   };
 

@@ -40,7 +40,7 @@ function sources(dir: string): string[] {
   for (const name of readdirSync(join(REPO_ROOT, dir))) {
     const rel = `${dir}/${name}`;
     if (statSync(join(REPO_ROOT, rel)).isDirectory()) out.push(...sources(rel));
-    else if (name.endsWith(".ts")) out.push(rel);
+    else if (name.endsWith(".ts") || name.endsWith(".cts")) out.push(rel); // .cts: the CommonJS worker shim
   }
   return out;
 }
@@ -87,6 +87,9 @@ describe("import direction", () => {
     // The reader sees real imports, type-only ones included.
     expect(importsOf("harness/engine/run.ts")).toContain("harness/engine/journal.ts");
     expect(importsOf("harness/predict/types.ts")).toContain("harness/model/problem.ts");
+    // The CommonJS worker shim is read too: its dynamic import() of the ESM worker counts.
+    expect(sources("harness")).toContain("harness/engine/worker-entry.cts");
+    expect(importsOf("harness/engine/worker-entry.cts")).toContain("harness/engine/worker.ts");
   });
 
   it("has no import that runs back up", () => {

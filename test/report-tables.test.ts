@@ -11,8 +11,8 @@ import { comparisonTerminalTable } from "../harness/report/terminal-table.js";
 
 function run(partial: Partial<RunRow> & Pick<RunRow, "n" | "instance" | "solver">): RunRow {
   return {
-    family: "ksat", run_length: null, status: "ok", wall_ns: 1, work: 1, floor_ns: null, trials: null, successes: null, p: null,
-    p_low: null, p_high: null, work_per_trial: null, wall_ns_per_trial: null, tts_ns: null, tts_ns_low: null,
+    family: "ksat", run_length: null, status: "ok", wall_ns: 1, cpu_ns: 1, work: 1, floor_ns: null, trials: null, successes: null, trial_success_p: null,
+    trial_success_p_low: null, trial_success_p_high: null, work_per_trial: null, wall_ns_per_trial: null, tts_ns: null, tts_ns_low: null,
     tts_ns_high: null, tts_work: null, tts_work_low: null, message: "", ...partial,
   };
 }
@@ -37,9 +37,9 @@ function annealStudy(): { runs: RunRow[]; predictions: PredictionRow[]; truth: M
         const key = `${n}:${rl}`;
         if (!truth.has(key)) truth.set(key, []);
         truth.get(key)!.push(tts);
-        runs.push(run({ n, instance: i, solver: "anneal", run_length: rl, wall_ns: tts * 3, work: tts, trials: 100, successes: 20, p: 0.2, tts_ns: tts, tts_work: tts / 2 }));
+        runs.push(run({ n, instance: i, solver: "anneal", run_length: rl, wall_ns: tts * 3, cpu_ns: tts * 3, work: tts, trials: 100, successes: 20, trial_success_p: 0.2, tts_ns: tts, tts_work: tts / 2 }));
       }
-      runs.push(run({ n, instance: i, solver: "exhaustive", wall_ns: 2 ** n * 2, work: 2 ** n }));
+      runs.push(run({ n, instance: i, solver: "exhaustive", wall_ns: 2 ** n, cpu_ns: 2 ** n * 2, work: 2 ** n }));
       predictions.push(prediction(n, i, "grover", 2 ** (0.5 * n) * (1 + 0.01 * hardness)));
     }
   }
@@ -71,7 +71,7 @@ describe("sizes table", () => {
     const runs: RunRow[] = [];
     for (let i = 0; i < 30; i++) {
       const fail = i < 16;
-      runs.push(run({ n: 20, instance: i, solver: "walk", run_length: 60, trials: 50, successes: fail ? 0 : 10, p: fail ? 0 : 0.2, tts_ns: fail ? null : 1000 + i, tts_ns_low: fail ? 5e6 : null }));
+      runs.push(run({ n: 20, instance: i, solver: "walk", run_length: 60, trials: 50, successes: fail ? 0 : 10, trial_success_p: fail ? 0 : 0.2, tts_ns: fail ? null : 1000 + i, tts_ns_low: fail ? 5e6 : null }));
     }
     const [row] = summariseSizes(runs, [], { resamples: 200 }).filter((r) => r.measure === "tts_ns");
     expect(row!.censored).toBe(16);
@@ -102,7 +102,7 @@ describe("fits and comparison", () => {
     const fit = (method: string, kind: "solver" | "predictor", measure: FitRow["measure"], a: number, lo: number, hi: number, c: number): FitRow => ({
       family: "ksat", method_kind: kind, method, measure, quantile: 0.5, exponent: a, exponent_low: lo, exponent_high: hi,
       base: 2 ** a, base_low: 2 ** lo, base_high: 2 ** hi, intercept: c, r2: 1, n_from: 18, n_to: 30, points: 7,
-      basis: measure === "tts_ns" || measure === "wall_ns" ? "time" : "work", poly_degree: null, aic_exponential: null,
+      basis: measure === "tts_ns" || measure === "cpu_ns" ? "time" : "work", poly_degree: null, aic_exponential: null,
       aic_polynomial: null, growth_model: "exponential", floor_factor: null, below_floor: "", exponent_status: "",
       run_length_rule: "", resamples: 2000, flag: "",
     });
@@ -110,7 +110,7 @@ describe("fits and comparison", () => {
     const fits = [
       // Classical 2^(0.8n − 20) s = 2^(0.8n − 20 + log₂1e9) ns.
       fit("anneal", "solver", "tts_ns", 0.8, 0.78, 0.82, -20 + log2ns),
-      fit("exhaustive", "solver", "wall_ns", 1, 1, 1, -30 + log2ns),
+      fit("exhaustive", "solver", "cpu_ns", 1, 1, 1, -30 + log2ns),
       fit("grover", "predictor", "queries", 0.5, 0.49, 0.51, 3),
     ];
     const all = compareMethods(fits, () => 2 ** -12.4, { parallelism: 4 });

@@ -16,13 +16,14 @@ function journalLines(dir: string): number {
   return existsSync(path) ? readFileSync(path, "utf8").split("\n").filter((l) => l !== "").length : 0;
 }
 
+// The run kills itself (SIGKILL) right after its journal reaches `lines` records (SPEEDBOUND_TEST_KILL_AT,
+// engine/run.ts). Polling the journal from here and killing from outside raced the study: the last kill point
+// leaves 8 cells (20–55 ms of work), and a test process descheduled that long let the study finish first.
 async function killAfter(dir: string, lines: number): Promise<void> {
-  const child = cliAsync(["run", ...STUDY, "--out", dir]);
-  const exited = new Promise<void>((resolve) => child.on("exit", () => resolve()));
-  const deadline = Date.now() + 60_000;
-  while (journalLines(dir) < lines && Date.now() < deadline && child.exitCode === null) await new Promise((r) => setTimeout(r, 5));
-  child.kill("SIGKILL");
-  await exited;
+  const child = cliAsync(["run", ...STUDY, "--out", dir], { SPEEDBOUND_TEST_KILL_AT: String(lines) });
+  const signal = await new Promise<NodeJS.Signals | null>((resolve) => child.on("exit", (_code, sig) => resolve(sig)));
+  expect(signal, `run killed at ${lines} records`).toBe("SIGKILL");
+  expect(journalLines(dir)).toBe(lines);
 }
 
 beforeAll(() => {

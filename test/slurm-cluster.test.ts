@@ -24,7 +24,7 @@ if (!cluster.up && !required) {
 const WAIT_MS = 180_000;
 
 /** Columns filled from the clock, left out of the comparison. Anything else must match exactly. */
-const TIMING = new Set(["wall_ns", "wall_ns_per_trial", "tts_ns", "tts_ns_low", "tts_ns_high", "floor_ns"]);
+const TIMING = new Set(["wall_ns", "cpu_ns", "wall_ns_per_trial", "tts_ns", "tts_ns_low", "tts_ns_high", "floor_ns"]);
 
 /** A table with the named columns dropped. */
 function tableWithout(dir: string, file: string, drop: ReadonlySet<string>): string[][] {

@@ -113,3 +113,30 @@ describe("spectral memory", () => {
     expect(parseMemory("0")).toBeNull();
   });
 });
+
+describe("lean spectral rows in predictions.csv take the table's column names (issue 11, item 7)", () => {
+  it("rounds → state_preparations and iterations → lanczos_products, values unchanged", async () => {
+    const { computeSpectral } = await import("../harness/predict/spectral-cell.js");
+    const { buildTables } = await import("../harness/report/tables.js");
+    const problem = random3Sat(10, "lean-columns");
+    const optimum = optimumOf(problem);
+    // The study cell's own path (computeSpectral → spectralLeanScan), recorded as a worker records it.
+    const row = computeSpectral(problem, optimum, 0.7, 0.5);
+    expect(typeof row.rounds).toBe("number");
+    const spec = {
+      family: "ksat", familyParams: { k: 3, density: 4.267 }, sizes: [10], instances: 1, predictors: ["spectral"],
+    } as unknown as Parameters<typeof buildTables>[0];
+    const base = { n: 10, index: 0, file: "", wall_ns: 1000 };
+    const tables = buildTables(spec, [
+      { ...base, key: "truth|10|0", kind: "truth", status: "ok", message: "", seed: "s", meta: {}, optimum, degeneracy: 1, assignments: 1024, mean: 1 },
+      { ...base, key: "spectral|10|0|0.7", kind: "spectral", predictor: "spectral", b: 0.7, status: "ok", message: "", row },
+    ] as unknown as Parameters<typeof buildTables>[1]);
+    const out = tables.predictions.find((p) => p.predictor === "spectral") as unknown as Record<string, unknown>;
+    expect(out).toBeDefined();
+    expect(out.state_preparations).toBe(row.rounds);
+    expect(out.lanczos_products).toBe(row.iterations);
+    expect(Number(out.lanczos_products)).toBeGreaterThan(0);
+    expect("rounds" in out).toBe(false);
+    expect("iterations" in out).toBe(false);
+  });
+});

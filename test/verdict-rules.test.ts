@@ -50,13 +50,13 @@ describe("fixed-cost floor", () => {
       for (let i = 0; i < 15; i++) {
         const jitter = 1 + 0.05 * rng.normal();
         const base = {
-          family: "ksat", n, instance: i, run_length: null, status: "ok" as const, trials: null, successes: null, p: null, p_low: null,
-          p_high: null, work_per_trial: null, wall_ns_per_trial: null, tts_ns_low: null, tts_ns_high: null, tts_work_low: null, message: "",
+          family: "ksat", n, instance: i, run_length: null, status: "ok" as const, trials: null, successes: null, trial_success_p: null,
+          trial_success_p_low: null, trial_success_p_high: null, work_per_trial: null, wall_ns_per_trial: null, tts_ns_low: null, tts_ns_high: null, tts_work_low: null, message: "",
         };
         // "slow": floor 1e5 ns plus 10·2^n ns of real work; "flat": pure set-up, 2e5 ns at every size.
         const slow = (1.5e5 + 10 * 2 ** n) * jitter;
-        runs.push({ ...base, solver: "slow", wall_ns: slow, tts_ns: slow, work: 2 ** n, tts_work: 2 ** n, floor_ns: 1e5 });
-        runs.push({ ...base, solver: "flat", wall_ns: 2e5 * jitter, tts_ns: 2e5 * jitter, work: 2 ** (0.5 * n), tts_work: 2 ** (0.5 * n), floor_ns: 1e5 });
+        runs.push({ ...base, solver: "slow", wall_ns: slow, cpu_ns: slow, tts_ns: slow, work: 2 ** n, tts_work: 2 ** n, floor_ns: 1e5 });
+        runs.push({ ...base, solver: "flat", wall_ns: 2e5 * jitter, cpu_ns: 2e5 * jitter, tts_ns: 2e5 * jitter, work: 2 ** (0.5 * n), tts_work: 2 ** (0.5 * n), floor_ns: 1e5 });
         predictions.push({ family: "ksat", n, instance: i, predictor: "grover", status: "ok", queries: 2 ** (0.5 * n), queries_log2: 0.5 * n, queries_low: null, queries_high: null });
       }
     }
@@ -149,9 +149,9 @@ describe("run-length edges (Rønnow et al., Science 345, 420 (2014))", () => {
     for (let n = 14; n <= 22; n += 2) {
       for (let i = 0; i < 6; i++) {
         const row = (runLength: number, p: number, steps: number | null): PredictionRow => ({
-          family: "sk", n, instance: i, predictor: "amplified-anneal", status: "ok", run_length: runLength, p,
+          family: "sk", n, instance: i, predictor: "amplified-anneal", status: "ok", run_length: runLength, trial_success_p: p,
           queries: steps === null ? null : steps / runLength, queries_log2: null, queries_low: steps === null ? 5 : steps / runLength,
-          queries_high: null, steps, steps_low: steps, steps_high: null,
+          queries_high: null, expected_work: steps, expected_work_low: steps, expected_work_high: null,
         } as PredictionRow);
         predictions.push(row(1, i < 4 ? 0 : 0.3, i < 4 ? null : 10));
         predictions.push(row(3, 0.2, 100 * 2 ** (0.1 * n)));
@@ -159,11 +159,11 @@ describe("run-length edges (Rønnow et al., Science 345, 420 (2014))", () => {
       }
     }
     const sizes = summariseSizes([], predictions, { resamples: 200 });
-    const atOne = sizes.find((r) => r.method === "amplified-anneal" && r.measure === "steps" && r.n === 18 && r.run_length === 1)!;
+    const atOne = sizes.find((r) => r.method === "amplified-anneal" && r.measure === "expected_work" && r.n === 18 && r.run_length === 1)!;
     expect(atOne.censored).toBe(4);
     expect(atOne.median).toBeNull();
-    expect(sizes.filter((r) => r.method === "amplified-anneal" && r.measure === "steps" && r.optimal_run_length).map((r) => r.run_length)).toEqual([3, 3, 3, 3, 3]);
-    const fit = fitStudy([], predictions, { resamples: 200, quantiles: [0.5], fitFrom: 14 }).find((f) => f.method === "amplified-anneal" && f.measure === "steps")!;
+    expect(sizes.filter((r) => r.method === "amplified-anneal" && r.measure === "expected_work" && r.optimal_run_length).map((r) => r.run_length)).toEqual([3, 3, 3, 3, 3]);
+    const fit = fitStudy([], predictions, { resamples: 200, quantiles: [0.5], fitFrom: 14 }).find((f) => f.method === "amplified-anneal" && f.measure === "expected_work")!;
     expect(fit.exponent_status).toBe("estimate");
     expect(fit.exponent!).toBeCloseTo(0.1, 10); // the exact 2^(0.1 n) of the rows at run length 3
   });

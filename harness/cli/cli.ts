@@ -6,8 +6,10 @@
 import yargs, { type Argv, type Options } from "yargs";
 import { hideBin } from "yargs/helpers";
 import { EXIT, InputError } from "../errors.js";
-import { optionsOf, type CommandName, type OptionSpec } from "./options.js";
+import { COMMAND_NAMES, OPTIONS, optionsOf, type CommandName, type OptionSpec } from "./options.js";
 import * as commands from "./commands/index.js";
+import { checkCommandLine, parseFailureLine } from "./argv-guard.js";
+import { writeFailure } from "../engine/fs-guard.js";
 
 function yargsType(o: OptionSpec): Options["type"] {
   if (o.type === "boolean") return "boolean";
@@ -50,6 +52,7 @@ function withOptions(y: Argv, command: CommandName): Argv {
 
 async function main(): Promise<number> {
   const args = hideBin(process.argv);
+  checkCommandLine(args, COMMAND_NAMES, OPTIONS);
   let code: number = EXIT.ok;
   const set = (c: number): void => {
     code = c;
@@ -117,8 +120,8 @@ async function main(): Promise<number> {
     .strict()
     .recommendCommands()
     .fail((msg, err) => {
-      if (err) throw err;
-      throw new InputError(msg.split("\n")[0]);
+      if (err && err.name !== "YError") throw err;
+      throw new InputError(parseFailureLine(err?.message ?? msg ?? ""));
     })
     .help()
     .wrap(Math.min(120, process.stdout.columns ?? 100))
@@ -133,7 +136,14 @@ main().then(
   (e: unknown) => {
     if (e instanceof InputError) {
       process.stderr.write(`speedbound: ${e.message}\n`);
-      process.exitCode = EXIT.badInput;
+      process.exitCode = (e as InputError & { exitCode?: number }).exitCode ?? EXIT.badInput;
+      return;
+    }
+    // A write that failed where no guard stood (read-only folder, full disk): still one line, never a stack.
+    const failed = writeFailure(e, "speedbound");
+    if (failed) {
+      process.stderr.write(`speedbound: ${failed.message}\n`);
+      process.exitCode = (failed as InputError & { exitCode?: number }).exitCode ?? EXIT.badInput;
       return;
     }
     process.stderr.write(`speedbound: internal error: ${e instanceof Error ? (e.stack ?? e.message) : String(e)}\n`);

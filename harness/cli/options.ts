@@ -16,8 +16,10 @@ export { FAMILY_NAMES } from "../families/registry.js";
 export { SOLVER_NAMES } from "../../solvers/registry.js";
 export { PREDICTOR_NAMES } from "../predict/registry.js";
 
-/** The commands of the tool. */
-export type CommandName = "run" | "demo" | "solve" | "instance" | "report" | "spectral" | "adiabatic" | "merge" | "compare" | "slurm" | "cost";
+/** The commands of the tool (also listed by the unknown-command message). */
+export const COMMAND_NAMES = ["run", "demo", "solve", "instance", "report", "spectral", "adiabatic", "merge", "compare", "slurm", "cost"] as const;
+/** One command of the tool. */
+export type CommandName = (typeof COMMAND_NAMES)[number];
 
 /** One option's declaration. */
 export interface OptionSpec {
@@ -27,6 +29,8 @@ export interface OptionSpec {
   readonly aliases?: ReadonlyArray<string>;
   /** Accepted but not shown by `--help` (an older form kept for one release). */
   readonly hidden?: boolean;
+  /** May be given more than once, each time adding one value (every other option takes exactly one). */
+  readonly repeatable?: boolean;
   readonly type: "number" | "integer" | "string" | "boolean" | "list" | "duration" | "range";
   readonly group: "study" | "family" | "solvers" | "predictors" | "cost model" | "run" | "report" | "output" | "cluster";
   readonly description: string;
@@ -82,7 +86,7 @@ export const OPTIONS = [
   {
     name: "solvers", type: "list", group: "solvers", choices: SOLVER_NAMES, commands: STUDY,
     // No single default: each solver's registry entry says on which model kinds it runs by default.
-    description: `classical solvers to time (exhaustive always runs: it is the ground truth); default per family kind: k-SAT/CNF ${defaultSolvers("cnf").join(",")}, spin families ${defaultSolvers("ising").join(",")}`,
+    description: `classical solvers to time (the exact ground truth always runs: exhaustive, or count for CNF above n = 30); default per family kind: k-SAT/CNF ${defaultSolvers("cnf").join(",")}, spin families ${defaultSolvers("ising").join(",")}`,
   },
   { name: "trials", type: "integer", group: "solvers", default: 200, min: 1, max: 1e9, commands: STUDY, description: "randomised solvers: independent trials per instance and run length" },
   { name: "walk-flips", type: "string", group: "solvers", default: "3n", commands: STUDY, description: "walk: flips per trial before a restart, as K·n (e.g. 3n, Schöning's choice)" },
@@ -98,7 +102,7 @@ export const OPTIONS = [
   { name: "tempering-sweeps", type: "list", group: "solvers", default: "10,30,100", unit: "sweeps", commands: STUDY, description: "tempering: rounds per trial (a sweep of every replica, then neighbour exchanges), one run per value" },
   { name: "tempering-temperature", type: "string", group: "solvers", unit: "cost units", commands: STUDY, description: "tempering: temperature range HOT:COLD of the ladder, hot end first (default: the annealer's acceptance-ratio rule on each instance)" },
   { name: "tempering-beta", hidden: true, type: "string", group: "solvers", unit: "1/cost", commands: STUDY, description: "tempering: the range as inverse temperatures HOT:COLD, 0 < HOT ≤ COLD (older spelling of --tempering-temperature)" },
-  { name: "external", type: "string", group: "solvers", commands: STUDY, description: "NAME=COMMAND: time any solver binary as solver NAME (repeatable); placeholders {file}, {seed}, {timeout}; see README" },
+  { name: "external", type: "string", repeatable: true, group: "solvers", commands: STUDY, description: "NAME=COMMAND: time any solver binary as solver NAME (repeatable); placeholders {file}, {seed}, {timeout}; see README" },
   { name: "predict", type: "list", group: "predictors", default: "grover,grover-unknown,min-finding,amplified-walk,amplified-anneal", choices: PREDICTOR_NAMES, commands: STUDY, description: "quantum predictors (query counts, never timings)" },
   { name: "spectral-b", aliases: ["b"], type: "number", group: "predictors", default: 0.7, min: 0, commands: ["run", "slurm", "spectral"], description: "spectral: filter strength b" },
   { name: "spectral-b-scan", aliases: ["b-scan"], type: "string", group: "predictors", commands: ["run", "slurm", "spectral"], description: "spectral: scan b over FROM:TO:STEP (overrides --spectral-b)" },

@@ -11,7 +11,7 @@ import { COOLING_INTERNAL, COOLING_LAWS, optionSpec, type OptionSpec } from "./o
 import { type StudySpec, methodOptionsOf } from "../engine/study.js";
 import { sizeOf } from "../model/problem.js";
 import { PREDICTOR_NAMES, predictorNamed } from "../predict/registry.js";
-import { SOLVER_NAMES, defaultSolvers, groundTruthSolver, trialsSolverNamed } from "../../solvers/registry.js";
+import { EXACT_SOLVER_NAMES, SOLVER_NAMES, defaultSolvers, groundTruthSolver, trialsSolverNamed } from "../../solvers/registry.js";
 import { parseExternalOption } from "../engine/external-solver.js";
 import type { MethodOptions } from "../../solvers/types.js";
 import type { CellSizeTarget } from "../predict/types.js";
@@ -115,7 +115,7 @@ export function checkLimits(
   params: FamilyParams,
   sizes: ReadonlyArray<number>,
   predictors: ReadonlyArray<string>,
-  folder: boolean,
+  folderFiles: ReadonlyArray<{ readonly file: string; readonly n: number }> | null,
   options: MethodOptions = {},
 ): void {
   for (const n of sizes) {
@@ -124,10 +124,12 @@ export function checkLimits(
   }
   const largest = sizes[sizes.length - 1];
   const symmetric = family.flipSymmetric(params);
-  const limit = groundTruthSolver(family.kind, symmetric, largest).maxSize(family.kind, symmetric);
+  const exact = groundTruthSolver(family.kind, symmetric, largest);
+  const limit = exact.maxSize(family.kind, symmetric);
   if (largest > limit) {
-    const where = folder ? `--from: a file has n = ${largest}` : `--n: size ${largest}`;
-    throw new InputError(`${where} is beyond the exact-enumeration limit of ${limit} for this family (ground truth needs all 2^n configurations)`);
+    // A folder study names the (first) file that is too large, so the user knows which one to drop.
+    const where = folderFiles ? `--from: ${folderFiles.find((f) => f.n === largest)?.file}: n = ${largest}` : `--n: size ${largest}`;
+    throw new InputError(`${where} is beyond the exact ground-truth limit of ${limit} for this family (the largest n an exact solver accepts: ${exact.name})`);
   }
   for (const name of predictors) {
     const cell = predictorNamed(name).cell;
@@ -202,8 +204,9 @@ export function resolveStudy(argv: Argv): StudySpec {
   const sizes = folder ? [...new Set(files.map((f) => f.n))].sort((a, b) => a - b) : parseSizeRange(String(argv.n ?? spec("n").default));
   const familyParams = fam.resolveParams(paramReader(argv));
   const target = { family, kind: fam.kind };
-  // Without --solvers: the registry's default list for the family's kind (each solver's `defaultFor`).
-  const solvers = listOption(argv, "solvers", SOLVER_NAMES, defaultSolvers(fam.kind).join(",")).filter((s) => s !== groundTruthSolver(fam.kind, false, 0).name);
+  // Without --solvers: the registry's default list for the family's kind (each solver's `defaultFor`); exact
+  // solvers are the ground truth, which always runs.
+  const solvers = listOption(argv, "solvers", SOLVER_NAMES, defaultSolvers(fam.kind).join(",")).filter((s) => !EXACT_SOLVER_NAMES.includes(s));
   for (const name of [...solvers]) {
     const why = trialsSolverNamed(name).appliesTo(target);
     if (why === null) continue;
@@ -222,7 +225,7 @@ export function resolveStudy(argv: Argv): StudySpec {
   // one study may run on nodes of different sizes (each then applies its own default).
   const spectralMemory = argv["spectral-memory"] !== undefined ? resolveSpectralMemory(argv) : undefined;
   const adiabaticGrid = predictors.includes("adiabatic") ? (numberOption(argv, "adiabatic-grid") as number) : undefined;
-  checkLimits(fam, familyParams, sizes, predictors, folder, { "spectral-memory": spectralMemory ?? null });
+  checkLimits(fam, familyParams, sizes, predictors, folder ? files : null, { "spectral-memory": spectralMemory ?? null });
   const walkFlipsText = String(argv["walk-flips"] ?? spec("walk-flips").default);
   const wf = /^(\d+(?:\.\d+)?)n$/.exec(walkFlipsText);
   if (!wf) throw new InputError(`--walk-flips: '${walkFlipsText}' is not of the form Kn (e.g. 3n)`);
@@ -254,15 +257,7 @@ export function resolveStudy(argv: Argv): StudySpec {
     }
     beta = [parts[0], parts[1]];
   }
-  let bValues = [numberOption(argv, "spectral-b") as number];
-  if (argv["spectral-b-scan"] !== undefined) {
-    const parts = String(argv["spectral-b-scan"]).split(":").map(Number);
-    if (parts.length !== 3 || !parts.every(Number.isFinite) || parts[2] <= 0 || parts[1] < parts[0] || parts[0] < 0) {
-      throw new InputError(`--spectral-b-scan: '${String(argv["spectral-b-scan"])}' is not FROM:TO:STEP with 0 ≤ FROM ≤ TO and STEP > 0`);
-    }
-    bValues = [];
-    for (let i = 0; parts[0] + i * parts[2] <= parts[1] + 1e-12; i++) bValues.push(Number((parts[0] + i * parts[2]).toPrecision(12)));
-  }
+  const bValues = resolveBValues(argv);
   const study: StudySpec = {
     family,
     familyParams,
@@ -332,6 +327,25 @@ function resolveBaselines(argv: Argv, solvers: ReadonlyArray<string>): Pick<Stud
     ...(solvers.includes("tempering") ? { tempering: { replicas, sweeps, beta } } : {}),
     ...(external.length > 0 ? { external } : {}),
   };
+}
+
+/**
+ * The spectral filter strengths: `--spectral-b-scan FROM:TO:STEP` when given (it overrides `--spectral-b`), else
+ * `--spectral-b`. Used by `run` (one cell per b) and `spectral` (one result per b).
+ */
+export function resolveBValues(argv: Argv): number[] {
+  if (argv["spectral-b-scan"] === undefined) return [numberOption(argv, "spectral-b") as number];
+  const text = String(argv["spectral-b-scan"]);
+  const parts = text.split(":").map((p) => (p.trim() === "" ? NaN : Number(p)));
+  if (parts.length !== 3 || !parts.every(Number.isFinite) || parts[2] <= 0 || parts[1] < parts[0] || parts[0] < 0) {
+    throw new InputError(`--spectral-b-scan: '${text}' is not FROM:TO:STEP with 0 ≤ FROM ≤ TO and STEP > 0`);
+  }
+  const values: number[] = [];
+  for (let i = 0; parts[0] + i * parts[2] <= parts[1] + 1e-12; i++) {
+    values.push(Number((parts[0] + i * parts[2]).toPrecision(12)));
+    if (values.length > 10_000) throw new InputError(`--spectral-b-scan: '${text}' gives more than 10000 values of b`);
+  }
+  return values;
 }
 
 /** A numeric option that has no default: null when not given. */

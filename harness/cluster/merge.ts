@@ -10,12 +10,15 @@ import { readJournal, type JournalRecord } from "../engine/journal.js";
 import { type StudySpec, cellsOfInstance, instancesOf } from "../engine/study.js";
 import { writeFileAtomic } from "../engine/files.js";
 import { OUT_FILES, readStudyFolder } from "../engine/output-folder.js";
+import { describeBuild, sameStreams, type BuildStamp } from "../engine/build-info.js";
 
 /** What a merge produced. */
 export interface MergeResult {
   readonly spec: StudySpec;
   readonly records: JournalRecord[];
   readonly shards: number;
+  /** The build stamp of the shards (all share one stream scheme). */
+  readonly build: Partial<BuildStamp> | undefined;
 }
 
 /** Reads and checks shard folders; returns the merged records (throws InputError naming the problem). */
@@ -29,6 +32,10 @@ export function mergeShards(dirs: ReadonlyArray<string>): MergeResult {
   for (const dir of dirs) {
     const { spec, shard } = readStudyFolder(dir);
     if (JSON.stringify(spec) !== specText) throw new InputError(`${dir}: belongs to a different study than ${dirs[0]} (spec.json differs)`);
+    const build = readStudyFolder(dir).build;
+    if (!sameStreams(build, first.build)) {
+      throw new InputError(`${dir}: made by ${describeBuild(build)}, but ${dirs[0]} by ${describeBuild(first.build)}: their random streams differ, so the shards do not form one study`);
+    }
     const k = shard?.k ?? 1;
     if ((shard?.count ?? 1) !== count) throw new InputError(`${dir}: is shard ${k}/${shard?.count ?? 1} but ${dirs[0]} has ${count} shards`);
     const earlier = seenShard.get(k);
@@ -51,14 +58,14 @@ export function mergeShards(dirs: ReadonlyArray<string>): MergeResult {
   if (missingCells.length > 0) {
     throw new InputError(`merge: ${missingCells.length} cell(s) not finished in any shard (first: ${missingCells[0]}); rerun the shard that owns them`);
   }
-  return { spec: first.spec, records: [...byKey.values()].map((v) => v.record), shards: count };
+  return { spec: first.spec, records: [...byKey.values()].map((v) => v.record), shards: count, build: first.build };
 }
 
 /** Writes a merged folder's spec and journal (refusing a folder that holds another study). */
 export function writeMerged(out: string, merged: MergeResult): void {
   const specPath = join(out, OUT_FILES.spec);
-  const identity = JSON.stringify({ spec: merged.spec, shard: null }, null, 2) + "\n";
-  if (existsSync(specPath) && readFileSync(specPath, "utf8") !== identity) {
+  const identity = JSON.stringify({ spec: merged.spec, shard: null, build: merged.build }, null, 2) + "\n";
+  if (existsSync(specPath) && JSON.stringify((JSON.parse(readFileSync(specPath, "utf8")) as { spec: unknown }).spec) !== JSON.stringify(merged.spec)) {
     throw new InputError(`${out}: holds a different study (see its ${OUT_FILES.spec}); merge into another folder`);
   }
   writeFileAtomic(specPath, identity);

@@ -4,8 +4,9 @@
  * killed process loses nothing the kernel has), and fsync'ed every {@link SYNC_EVERY_RECORDS} records or
  * {@link SYNC_EVERY_MS} ms, whichever comes first (so a power cut loses at most that much).
  */
-import { closeSync, existsSync, fsyncSync, openSync, readFileSync, truncateSync, writeSync } from "node:fs";
+import { closeSync, existsSync, fsyncSync, openSync, readFileSync, truncateSync } from "node:fs";
 import type { CellStatus } from "../types.js";
+import { appendWholeOrNothing, guardWrite } from "./fs-guard.js";
 
 /** fsync batch size (records). */
 export const SYNC_EVERY_RECORDS = 32;
@@ -36,6 +37,20 @@ export interface TruthRecord extends RecordBase {
   /** Fixed per-cell cost (sum over slices of a one-configuration call), ns; absent in older journals. */
   readonly floor_ns?: number | null;
   readonly mean: number | null;
+  /**
+   * Elapsed time of the cell, ns, from dispatching its first slice to merging its last (runs.csv `wall_ns`);
+   * `wall_ns` of a truth record is the sum over its parallel slices (runs.csv `cpu_ns`). Absent in journals written
+   * before it was recorded: their runs.csv `wall_ns` stays empty.
+   */
+  readonly elapsed_ns?: number;
+  // --- issue 16 (exact counting); absent in journals written before it (read as enumeration) ---
+  /** "enumeration", "count" (model counter) or "maxsat" (branch and bound). */
+  readonly truth_method?: string;
+  /** The degeneracy as an exact decimal (may exceed 2^53, where `degeneracy` is rounded). */
+  readonly degeneracy_exact?: string;
+  /** Decisions made by the counting methods (their work measure). */
+  readonly nodes?: number;
+  // --- end issue 16 ---
 }
 
 /** Trials of a randomised solver at one run length. */
@@ -132,13 +147,14 @@ export class JournalWriter {
   private unsynced = 0;
   private lastSync = Date.now();
 
-  constructor(path: string) {
-    this.fd = openSync(path, "a");
+  constructor(private readonly path: string) {
+    this.fd = guardWrite(path, path, () => openSync(path, "a"));
   }
 
   /** Writes one record (one line) now; syncs by batch. */
   append(record: JournalRecord): void {
-    writeSync(this.fd, JSON.stringify(record) + "\n");
+    // Whole line or nothing: a full disk must not leave half a record that a later append would continue.
+    appendWholeOrNothing(this.fd, JSON.stringify(record) + "\n", this.path);
     this.unsynced++;
     if (this.unsynced >= SYNC_EVERY_RECORDS || Date.now() - this.lastSync >= SYNC_EVERY_MS) this.sync();
   }
@@ -146,13 +162,16 @@ export class JournalWriter {
   /** Forces buffered records to disk. */
   sync(): void {
     if (this.unsynced === 0) return;
-    fsyncSync(this.fd);
+    guardWrite(this.path, this.path, () => fsyncSync(this.fd));
     this.unsynced = 0;
     this.lastSync = Date.now();
   }
 
   close(): void {
-    this.sync();
-    closeSync(this.fd);
+    try {
+      this.sync();
+    } finally {
+      closeSync(this.fd);
+    }
   }
 }

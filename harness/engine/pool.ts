@@ -8,12 +8,16 @@ import { fileURLToPath } from "node:url";
 import { Piscina } from "piscina";
 import type { Task } from "./tasks.js";
 
-/** Path of the compiled worker entry. */
+/**
+ * Path of the compiled worker entry: the CommonJS shim worker-entry.cjs, never the ESM worker.js itself
+ * (piscina loads its entry with require(), and require(esm) aborts the process when a worker is terminated
+ * while loading; see worker-entry.cts).
+ */
 export function workerPath(): string {
   const here = fileURLToPath(import.meta.url);
   const compiled = here.endsWith(".ts")
-    ? fileURLToPath(new URL("../../dist/harness/engine/worker.js", import.meta.url))
-    : fileURLToPath(new URL("./worker.js", import.meta.url));
+    ? fileURLToPath(new URL("../../dist/harness/engine/worker-entry.cjs", import.meta.url))
+    : fileURLToPath(new URL("./worker-entry.cjs", import.meta.url));
   if (!existsSync(compiled)) throw new Error(`compiled worker missing at ${compiled}: run 'npm run build' first`);
   return compiled;
 }

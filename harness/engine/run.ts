@@ -9,8 +9,9 @@ import type { InstanceContext } from "../families/registry.js";
 import { JournalWriter, readJournal, type JournalRecord, type RunRecord, type SpectralRecord, type TruthRecord } from "./journal.js";
 import { WorkerPool } from "./pool.js";
 import { StopControl } from "./stop.js";
-import { computeGroundTruth } from "./ground-truth.js";
+import { computeGroundTruth, slicesElapsed } from "./ground-truth.js";
 import type { Progress } from "./progress.js";
+import { InputError } from "../errors.js";
 import { OUT_FILES, prepareOutput } from "./output-folder.js";
 import type { RunSummary } from "./run-summary.js";
 import { type Cell, type InstanceRef, type StudySpec, cellsOfInstance, instancesOf, methodOptionsOf, shardInstances, solverStudyOf } from "./study.js";
@@ -19,6 +20,8 @@ import { trialsSolverNamed } from "../../solvers/registry.js";
 import { familyNamed, materialise } from "../families/registry.js";
 import { costTolerance } from "../model/problem.js";
 import { FLOOR_LIMIT_MS, measureStartupFloor, ProcessSlots, runExternalCell } from "./external-solver.js";
+import { lockFolder } from "./folder-lock.js";
+import { GENERATION_STOPPED, withDrawStop } from "../families/draw-stop.js";
 
 /** How a run is carried out (not part of the study's identity). */
 export interface RunOptions {
@@ -40,6 +43,15 @@ export { LIMIT_POLL_MS } from "./stop.js";
 /** Runs (or resumes) a study. Resolves when every cell is journalled, skipped by the budget, or interrupted. */
 export async function runStudy(spec: StudySpec, options: RunOptions): Promise<RunSummary> {
   prepareOutput(spec, options.out, options.shard);
+  const lock = lockFolder(options.out, "--out", "run"); // one writer per folder: no interleaved journal
+  try {
+    return await runLocked(spec, options);
+  } finally {
+    lock.release();
+  }
+}
+
+async function runLocked(spec: StudySpec, options: RunOptions): Promise<RunSummary> {
   const journalPath = join(options.out, OUT_FILES.journal);
   const previous = readJournal(journalPath, true);
   const done = new Map<string, JournalRecord>();
@@ -64,9 +76,19 @@ export async function runStudy(spec: StudySpec, options: RunOptions): Promise<Ru
   for (const ext of spec.external ?? []) {
     floors.set(ext.name, (await measureStartupFloor(ext, problemKind, 5, Math.min(FLOOR_LIMIT_MS, options.cellLimitMs ?? Infinity))).floor_ns);
   }
+  let storageFailure: unknown = null;
   const record = (r: JournalRecord): void => {
-    journal.append(r);
+    if (storageFailure !== null) return;
+    try {
+      journal.append(r);
+    } catch (e) {
+      // Disk full (or the like): keep what was acknowledged, start nothing new, stop running cells, report once.
+      storageFailure = e;
+      stop.stopNow();
+      return;
+    }
     done.set(r.key, r);
+    killAtTestPoint(done.size);
     state.done++;
     if (r.status === "error" || r.status === "wrong") state.errors++; // a wrong external answer fails the run too
     if (r.status === "censored") state.censored++;
@@ -86,20 +108,28 @@ export async function runStudy(spec: StudySpec, options: RunOptions): Promise<Ru
       try {
         // The slice plan needs the problem's kind and symmetry only; generating in the main thread is cheap
         // except for --satisfiable/--unique, which the first worker answer would repeat anyway.
-        const problem = materialise(ctxOf(inst)).problem;
+        // Generation counts against the budget and the cell limit (see StopControl.generationCheck).
+        const problem = withDrawStop(stop.generationCheck(), () => materialise(ctxOf(inst))).problem;
         const { merged, answers } = await computeGroundTruth(pool, problem, ctxOf(inst), options.workers, flag);
+        const elapsed = slicesElapsed(answers);
         const wall = answers.reduce((s, a) => s + a.wall_ns, 0);
         const floor = answers.every((a) => a.floor_ns !== null) ? answers.reduce((s, a) => s + (a.floor_ns ?? 0), 0) : null;
         const status = merged.complete ? "ok" : "censored";
         return {
-          ...base, status, wall_ns: wall, message: status === "ok" ? "" : "stopped by a time limit",
+          ...base, status, wall_ns: wall, elapsed_ns: elapsed, message: status === "ok" ? "" : "stopped by a time limit",
           seed: answers[0].seed, meta: answers[0].meta,
           optimum: merged.complete ? merged.optimum : null,
           degeneracy: merged.complete ? merged.degeneracy : null,
           assignments: merged.assignments, evaluated: merged.evaluated, floor_ns: floor, mean: answers[0].mean,
+          // issue 16: which exact method answered, and its exact count.
+          truth_method: merged.method ?? "enumeration",
+          ...(merged.complete ? { degeneracy_exact: merged.degeneracyExact ?? String(merged.degeneracy) } : {}),
+          ...(merged.nodes === undefined ? {} : { nodes: merged.nodes }),
         };
       } catch (e) {
-        return { ...base, status: "error", wall_ns: 0, message: messageOf(e), seed: "", meta: {}, optimum: null, degeneracy: null, assignments: 0, mean: null };
+        if (e instanceof InputError) throw e; // an unmeetable filter (e.g. --satisfiable at a high density) ends the study: bad input
+        const stopped = messageOf(e).startsWith(GENERATION_STOPPED);
+        return { ...base, status: stopped ? "censored" : "error", wall_ns: 0, message: messageOf(e), seed: "", meta: {}, optimum: null, degeneracy: null, assignments: 0, mean: null };
       }
     });
   };
@@ -210,6 +240,7 @@ export async function runStudy(spec: StudySpec, options: RunOptions): Promise<Ru
     options.progress.stop();
     await pool.close();
   }
+  if (storageFailure !== null) throw storageFailure;
   return {
     cellsTotal, cellsDone: state.done, cellsResumed: state.resumed, errors: state.errors, censored: state.censored,
     skipped: state.skipped, completeSizes, incompleteSizes, interrupted: stop.signal, tornJournalLine: previous.tornLine,
@@ -231,3 +262,15 @@ export function messageOf(e: unknown): string {
   const text = e instanceof Error ? e.message : String(e);
   return text.split("\n")[0];
 }
+
+/**
+ * Test hook: SPEEDBOUND_TEST_KILL_AT=K kills this process with SIGKILL as soon as the journal holds K records,
+ * so the resume test kills at exact points. (Killing from outside once the test sees K lines raced the study:
+ * the last 8 cells of that test take 20–55 ms, and a test process descheduled that long let the study finish
+ * before the kill.) Unset in normal use.
+ */
+function killAtTestPoint(records: number): void {
+  const at = process.env.SPEEDBOUND_TEST_KILL_AT;
+  if (at !== undefined && records === Number(at)) process.kill(process.pid, "SIGKILL");
+}
+

@@ -80,6 +80,23 @@ export class StopControl {
     }
   }
 
+  /**
+   * A check for work done in this thread before a cell reaches the pool (redrawing formulas for --satisfiable /
+   * --unique): true once the run is stopping, the budget has passed, or the cell limit has passed since now.
+   * The thread is busy meanwhile, so the timers cannot fire; the check reads the clock itself.
+   */
+  generationCheck(): () => boolean {
+    const limitAt = this.limits.cellLimitMs === null ? Infinity : Date.now() + this.limits.cellLimitMs;
+    const until = Math.min(this.deadline, limitAt);
+    return () => this.stopping || Date.now() >= until;
+  }
+
+  /** Stops the run now (a storage failure): no new cells, running ones stopped. */
+  stopNow(): void {
+    this.stopping = true;
+    this.stopAll();
+  }
+
   /** Removes the timers and signal handlers. */
   dispose(): void {
     if (this.budgetTimer) clearTimeout(this.budgetTimer);

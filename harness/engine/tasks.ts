@@ -52,6 +52,11 @@ export type Task = TruthSliceTask | TrialsTask | PredictTask;
 export interface TruthSliceAnswer {
   readonly result: ExactResult;
   readonly wall_ns: number;
+  /**
+   * When the slice started: process.hrtime.bigint() as decimal digits (one monotonic clock for every thread of the
+   * process), so the cell's elapsed time runs from its first slice's start to its last slice's end.
+   */
+  readonly start_ns: string;
   /** Fixed cost of the call: the same kernel on a one-configuration slice, timed after the real call; null if it failed. */
   readonly floor_ns: number | null;
   readonly meta: Readonly<Record<string, number | string | boolean>>;

@@ -8,16 +8,19 @@ import { costTolerance, meanCost } from "../model/problem.js";
 import type { PredictAnswer, Task, TrialsAnswer, TruthSliceAnswer } from "./tasks.js";
 import { exactSolverNamed, trialsSolverNamed } from "../../solvers/registry.js";
 import { predictorNamed } from "../predict/registry.js";
+import { withDrawStop } from "../families/draw-stop.js";
 
 // Slices and runs of one instance usually reach the same worker in a row; regenerating is cheap for plain
 // draws but costs exact enumerations for --satisfiable/--unique, so the last instance is kept.
 let cachedKey = "";
 let cached: GeneratedInstance | null = null;
+/** The running task's stop flag: a limit raised while redrawing formulas stops the redraws too. */
+let currentStop: Int32Array | null = null;
 
 function instanceFor(ctx: InstanceContext): GeneratedInstance {
   const key = JSON.stringify(ctx);
   if (key !== cachedKey || cached === null) {
-    cached = materialise(ctx);
+    cached = withDrawStop(() => currentStop !== null && Atomics.load(currentStop, 0) === 1, () => materialise(ctx));
     cachedKey = key;
   }
   return cached;
@@ -51,6 +54,7 @@ function floorOf(call: () => unknown): number | null {
 export default function handle(task: Task): TruthSliceAnswer | TrialsAnswer | PredictAnswer {
   // Tell the run loop that computing starts now: cell limits count from here, not from the queue.
   Atomics.store(task.stop, 1, 1);
+  currentStop = task.stop;
   switch (task.type) {
     case "truth-slice": {
       const solver = exactSolverNamed(task.solver);
@@ -61,7 +65,7 @@ export default function handle(task: Task): TruthSliceAnswer | TrialsAnswer | Pr
       // Zero-length run: the solver's smallest part of the same shape (one configuration for enumeration).
       const least = solver.leastPart?.(inst.problem, task.part);
       const floor_ns = least === undefined ? null : floorOf(() => solver.run(inst.problem, least, null));
-      return { result, wall_ns, floor_ns, meta: inst.meta, seed: inst.seed, mean: meanCost(inst.problem) };
+      return { result, wall_ns, start_ns: String(start), floor_ns, meta: inst.meta, seed: inst.seed, mean: meanCost(inst.problem) };
     }
     case "trials": {
       injectFault(task.ctx);

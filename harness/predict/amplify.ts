@@ -9,7 +9,7 @@
  */
 import type { Predictor } from "./types.js";
 
-/** Result of {@link amplifyTrial}; every field is a predictions.csv column. */
+/** Result of {@link amplifyTrial}; every field is a predictions.csv column (under the name report/tables.ts `PREDICTION_COLUMNS` gives it where this one is ambiguous, e.g. p → trial_success_p). */
 export type AmplifiedTrial = {
   /** Per-trial success probability of the classical trial. */
   p: number;

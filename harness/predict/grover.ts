@@ -24,7 +24,7 @@ export function groverSuccessProbability(k: number, theta: number): number {
   return s * s;
 }
 
-/** Result of {@link groverKnown}; every field is a predictions.csv column. */
+/** Result of {@link groverKnown}; every field is a predictions.csv column (under the name report/tables.ts `PREDICTION_COLUMNS` gives it where this one is ambiguous, e.g. p → trial_success_p). */
 export type GroverKnown = {
   /** Number of optima M (marked strings) the oracle marks. */
   optima: number;
@@ -134,7 +134,7 @@ export function averagedSuccessProbability(choices: number, theta: number): numb
   return numerator / (4 * choices * sinA);
 }
 
-/** Result of {@link groverUnknown}; every field is a predictions.csv column. */
+/** Result of {@link groverUnknown}; every field is a predictions.csv column (under the name report/tables.ts `PREDICTION_COLUMNS` gives it where this one is ambiguous, e.g. p → trial_success_p). */
 export type GroverUnknown = {
   /** Number of optima M (unknown to the algorithm; used only to evaluate its expectation). */
   optima: number;

@@ -61,7 +61,7 @@ export const DEFAULT_SPECTRAL_OPTIONS: Readonly<{
   maxIterations: DEFAULT_LANCZOS_OPTIONS.maxIterations,
 });
 
-/** One prediction; every field is a predictions.csv column (energies in units of H_b). */
+/** One prediction; every field is a journal field and a predictions.csv column (energies in units of H_b; rounds and iterations appear as state_preparations and lanczos_products, report/tables.ts `PREDICTION_COLUMNS`). */
 export type SpectralResult = {
   /** Strength of the filtered cost. */
   b: number;

@@ -85,9 +85,10 @@ export function compareFolders(oldDir: string, newDir: string, tolerance: number
     const groups = new Map<string, number[]>();
     for (const r of rows) {
       if (r.status !== "ok" || !(r.work > 0)) continue;
+      // CPU time per step (exhaustive: summed over its parallel slices), so the ratio does not depend on --workers.
       const key = `${r.solver}|${r.n}`;
       const list = groups.get(key) ?? [];
-      list.push(r.wall_ns / r.work);
+      list.push(r.cpu_ns / r.work);
       groups.set(key, list);
     }
     return new Map([...groups].map(([k, v]) => [k, quantileOf(v, 0.5)]));

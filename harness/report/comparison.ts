@@ -58,7 +58,7 @@ export interface ComparisonRow {
   solver: string;
   predictor: string;
   quantile: number;
-  /** The classical measure (fits.csv) and the quantum one ("queries", "steps", or "seconds" predicted). */
+  /** The classical measure (fits.csv) and the quantum one ("queries", "expected_work", or "seconds" predicted). */
   classical_measure: string;
   quantum_measure: string;
   exponent_classical: number | null;
@@ -105,8 +105,8 @@ export const COMPARISON_COLUMNS: ReadonlyArray<keyof ComparisonRow> = [
 
 /** How {@link compareMethods} words a verdict (for the README, the tables and the study page). */
 export const SPEEDUP_RULE = [
-  "Rows compare like with like: work (classical elementary operations against quantum queries, or an amplified solver's steps",
-  "against the classical solver's own steps) or time (classical seconds / S against predicted quantum seconds).",
+  "Rows compare like with like: work (classical elementary operations against quantum queries, or an amplified solver's expected work",
+  "against the classical solver's own work) or time (classical seconds / S against predicted quantum seconds).",
   "Each predictor is rated on each basis only against the classical solver with the lowest exponent on that basis",
   "(amplified-X only against X); other rows say 'not rated'.",
   "No verdict when: the time fit has fewer than 3 sizes above 10x (--floor-factor) the fixed-cost floor; either side",
@@ -166,7 +166,7 @@ const LOG2_NS = Math.log2(1e9);
 /** Classical measures per basis, in order of preference: to-solution first. */
 const CLASSICAL_MEASURES: Readonly<Record<MeasureBasis, ReadonlyArray<string>>> = {
   work: ["tts_work", "work"],
-  time: ["tts_ns", "wall_ns"],
+  time: ["tts_ns", "cpu_ns"],
   scale: [],
 };
 
@@ -226,9 +226,9 @@ export function compareMethods(
       for (const predictor of predictors) {
         const source = amplifiedSource(predictor);
         const measureOwn = ownMeasure(predictor);
-        // Work: an amplified solver in its own steps; a predictor with its own measure in that measure (never
-        // rated: no classical measure is like it); every other predictor in oracle queries.
-        const qMeasure = measureOwn !== null ? measureOwn.column : basis === "work" && source !== null ? "steps" : "queries";
+        // Work: an amplified solver in its own elementary operations (expected_work); a predictor with its own
+        // measure in that measure (never rated: no classical measure is like it); every other predictor in oracle queries.
+        const qMeasure = measureOwn !== null ? measureOwn.column : basis === "work" && source !== null ? "expected_work" : "queries";
         const qf = own.find((f) => f.method_kind === "predictor" && f.method === predictor && f.measure === qMeasure) ?? null;
         const ratedSolver = measureOwn !== null ? null : source !== null ? (solvers.includes(source) ? source : null) : strongest;
         for (const solver of solvers) {

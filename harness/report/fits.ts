@@ -24,10 +24,10 @@ import {
  */
 export type MeasureBasis = "work" | "time" | "scale";
 
-/** The basis of a measure: wall_ns and tts_ns are time, runtime_scale a scale, everything else work. */
+/** The basis of a measure: cpu_ns and tts_ns are time, runtime_scale a scale, everything else work. */
 export function basisOf(measure: Measure): MeasureBasis {
   if (measure === "runtime_scale") return "scale";
-  return measure === "wall_ns" || measure === "tts_ns" ? "time" : "work";
+  return measure === "cpu_ns" || measure === "tts_ns" ? "time" : "work";
 }
 
 /** One row of fits.csv. */
@@ -36,7 +36,7 @@ export interface FitRow {
   method_kind: MethodKind;
   method: string;
   measure: Measure;
-  /** "work" (steps, evaluations, queries), "time" (ns) or "scale" (1/gap²): the bases stand side by side in this table. */
+  /** "work" (elementary operations, queries), "time" (ns) or "scale" (1/gap²): the bases stand side by side in this table. */
   basis: MeasureBasis;
   /** Quantile over instances that was fitted (0.5 = median). */
   quantile: number;
@@ -137,7 +137,7 @@ export function fitStudy(
     if (floorApplies) {
       const points = groups.map((g) => {
         const ck = cellKey(g.family, g.kind, g.method, g.runLength, g.n);
-        const wall = c.groups.get(ck + sep + "wall_ns");
+        const wall = c.groups.get(ck + sep + "cpu_ns"); // floor_ns is CPU time too (summed over slices)
         const sample = wall === undefined ? null : sampleOf(wall);
         const medianWall = sample === null ? null : censoredQuantile(sample.values, sample.censored, 0.5).value;
         return { n: g.n, medianWall, floor: medianFloor(c.floors.get(ck)) };

@@ -38,7 +38,7 @@ function inlineSvg(svg: string): string {
 }
 
 const RUN_LENGTH_RULE =
-  "randomised solvers: per size the run length with the smallest median steps to solution is used (Rønnow et al., Science 345, 420 (2014)); " +
+  "randomised solvers: per size the run length with the smallest median work to solution is used (Rønnow et al., Science 345, 420 (2014)); " +
   "when it lies at the edge of the scanned grid, the true optimum may lie beyond it and that size's cost is an upper bound, so the exponent " +
   "is labelled an upper bound (edges at the largest sizes), a lower bound (edges at the smallest sizes) or a bound of unknown direction";
 
@@ -89,7 +89,7 @@ code { font-size: 12px; }
 ${table}
 ${notes.length === 0 ? "" : `<p class="footnotes">${notes.map(escapeHtml).join("<br>")}</p>`}
 <h2>Figures</h2>
-${figureBlock("work", "Work: classical elementary operations to solution against quantum oracle queries (amplified solvers: steps), log2 scale, fitted lines over the sizes each fit used; open markers are censored medians at their lower bound.")}
+${figureBlock("work", "Work: classical elementary operations to solution against quantum oracle queries (amplified solvers: expected work), log2 scale, fitted lines over the sizes each fit used; open markers are censored medians at their lower bound.")}
 ${figureBlock("time", `Time: measured classical seconds divided by S = ${spec.costModel.classicalParallelism} against predicted quantum seconds; faint lines are extrapolations; n* marks a crossover. Assumptions: ${input.settings}.`)}
 ${figureBlock("instances", "Instances: per-instance classical time to solution against the per-instance quantum prediction at the largest size with both; Spearman's rank correlation in the legend.")}
 <h2>Rules that excluded sizes or withheld verdicts</h2>

@@ -23,21 +23,24 @@ import type { SizeRunLengths } from "../stats/run-length-edge.js";
 /** Whether a row of the report describes a classical solver or a quantum predictor. */
 export type MethodKind = "solver" | "predictor";
 
-/** Cost measures of runs.csv rows, in column order. */
-export const RUN_MEASURES = ["wall_ns", "work", "tts_ns", "tts_work"] as const;
+/**
+ * Cost measures of runs.csv rows, in column order. Time is CPU time (cpu_ns: exhaustive's summed over its parallel
+ * slices), so a scaling fit does not depend on --workers; runs.csv wall_ns (elapsed) is reported, not fitted.
+ */
+export const RUN_MEASURES = ["cpu_ns", "work", "tts_ns", "tts_work"] as const;
 /** Cost measures of predictions.csv rows. */
-export const PREDICTION_MEASURES = ["queries", "steps", "runtime_scale"] as const;
+export const PREDICTION_MEASURES = ["queries", "expected_work", "runtime_scale"] as const;
 /** A cost measure (a column of runs.csv or predictions.csv). */
 export type Measure = (typeof RUN_MEASURES)[number] | (typeof PREDICTION_MEASURES)[number];
 
 /** Unit of each measure, for axis titles and table headers. */
 export const MEASURE_UNITS: Readonly<Record<Measure, string>> = {
-  wall_ns: "wall time, ns",
-  work: "elementary steps",
+  cpu_ns: "CPU time, ns",
+  work: "elementary operations",
   tts_ns: "time to solution (99 %), ns",
-  tts_work: "steps to solution (99 %)",
+  tts_work: "elementary operations to solution (99 %)",
   queries: "oracle queries",
-  steps: "classical steps inside amplified runs",
+  expected_work: "elementary operations inside amplified runs",
   runtime_scale: "adiabatic time scale 1/gap² (not an oracle count)",
 };
 
@@ -89,7 +92,7 @@ export const cellKey = (family: string, kind: MethodKind, method: string, runLen
 export const seriesKey = (family: string, kind: MethodKind, method: string): string => [family, kind, method].join(sep);
 
 function lowColumn(measure: Measure): string | null {
-  return measure === "tts_ns" ? "tts_ns_low" : measure === "tts_work" ? "tts_work_low" : measure === "queries" ? "queries_low" : measure === "steps" ? "steps_low" : null;
+  return measure === "tts_ns" ? "tts_ns_low" : measure === "tts_work" ? "tts_work_low" : measure === "queries" ? "queries_low" : measure === "expected_work" ? "expected_work_low" : null;
 }
 
 export function collect(runs: ReadonlyArray<RunRow>, predictions: ReadonlyArray<PredictionRow>): Collected {
@@ -113,11 +116,11 @@ export function collect(runs: ReadonlyArray<RunRow>, predictions: ReadonlyArray<
     let value = typeof raw === "number" ? raw : NaN;
     let censored = rowCensored;
     // A TTS from a row without success is a lower bound (p = 0 gives an infinite or bound-only TTS).
-    if ((measure === "tts_ns" || measure === "tts_work") && (row["successes"] === 0 || row["p"] === 0)) censored = true;
+    if ((measure === "tts_ns" || measure === "tts_work") && (row["successes"] === 0 || row["trial_success_p"] === 0)) censored = true;
     // Likewise an amplified trial that never succeeded (p = 0): its cost is unbounded, at least its low end; the
     // instance counts as censored instead of dropping out of the median (which would bias it low) and the run
     // length stays on the scanned grid (the run-length edge rule needs it).
-    if ((measure === "queries" || measure === "steps") && row["p"] === 0 && !Number.isFinite(value)) censored = true;
+    if ((measure === "queries" || measure === "expected_work") && row["trial_success_p"] === 0 && !Number.isFinite(value)) censored = true;
     if (!Number.isFinite(value) && (censored || value === Infinity)) {
       censored = true;
       const lowName = lowColumn(measure);
@@ -247,7 +250,7 @@ export function optimalRunLengths(
     const seriesMeasures = c.measures.get(seriesKey(family, kind, method)) ?? new Set<Measure>();
     // Amplified solvers: the run length that needs the fewest classical steps in all (longer runs always need
     // fewer amplified runs); the spectral b: the fewest queries.
-    const preference = kind === "predictor" ? ["steps", "queries"] : [preferred, "tts_work", "tts_ns", "work", "wall_ns"];
+    const preference = kind === "predictor" ? ["expected_work", "queries"] : [preferred, "tts_work", "tts_ns", "work", "cpu_ns"];
     const measure = preference.find((m) => seriesMeasures.has(m as Measure)) as Measure | undefined;
     let best: { key: string; value: number; defined: boolean; runLength: number } | null = null;
     for (const { runLength, key } of list) {

@@ -13,7 +13,7 @@ import { writePaperOutputs, type PaperOutputs } from "./paper.js";
 /** Leading columns of each table (DESIGN.md §5: family, n, instance first). */
 export const LEADING = {
   instances: ["family", "n", "instance", "seed"],
-  runs: ["family", "n", "instance", "solver", "run_length", "status", "wall_ns", "work", "trials", "successes", "p", "p_low", "p_high"],
+  runs: ["family", "n", "instance", "solver", "run_length", "status", "wall_ns", "cpu_ns", "work", "trials", "successes", "trial_success_p", "trial_success_p_low", "trial_success_p_high"],
   predictions: ["family", "n", "instance", "predictor", "status", "queries", "queries_log2", "queries_low", "queries_high"],
 } as const;
 

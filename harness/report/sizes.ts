@@ -119,7 +119,7 @@ export function summariseSizes(
   for (const [ck, set] of c.errors) {
     if (emitted.has(ck)) continue;
     const [family, kind, method, rl, n] = ck.split(sep) as [string, MethodKind, string, string, string];
-    const ms = c.measures.get(seriesKey(family, kind, method)) ?? new Set<Measure>([kind === "solver" ? "wall_ns" : "queries"]);
+    const ms = c.measures.get(seriesKey(family, kind, method)) ?? new Set<Measure>([kind === "solver" ? "cpu_ns" : "queries"]);
     for (const measure of ms) {
       rows.push({
         family, n: Number(n), method_kind: kind, method, run_length: rl === "" ? null : Number(rl),

@@ -11,6 +11,39 @@ import { bestCutoff, medianFlips, runLengthsFromSteps } from "../stats/run-lengt
 import { PREDICTORS, predictorNamed } from "../predict/registry.js";
 import { familyNamed } from "../families/registry.js";
 
+/**
+ * instances.csv names of family descriptors whose journal name (kept, so older folders rebuild) is ambiguous:
+ * the p-spin order `p` (p is a success probability elsewhere).
+ */
+export const INSTANCE_COLUMNS: Readonly<Record<string, string>> = { p: "order" };
+
+/**
+ * predictions.csv names of predictor result fields whose journal/result name meant two things (issue 11, item 7).
+ * Keys are `field` (every predictor) or `predictor:field` (one predictor); the predictors' result types and the
+ * journal keep their own names.
+ *  - p, p_low, p_high (amplified solvers: the measured per-trial success probability) → trial_success_p…, as in runs.csv;
+ *  - success_probability (Grover and amplified solvers: success probability of one attempt) → attempt_success_p;
+ *  - rounds: amplified solvers' amplification rounds per attempt m* → amplification_rounds; the spectral method's
+ *    1/(|⟨+|ψ_b⟩|·√P_opt), expected preparations of ψ_b, each one phase estimation → state_preparations;
+ *  - iterations: grover-unknown's expected Grover iterations → grover_iterations; the spectral method's products
+ *    with H_b in its Lanczos solve → lanczos_products;
+ *  - steps, steps_low, steps_high (work per trial × expected trial runs: elementary operations, the unit of runs.csv
+ *    `work`) → expected_work, expected_work_low, expected_work_high.
+ */
+export const PREDICTION_COLUMNS: Readonly<Record<string, string>> = {
+  p: "trial_success_p",
+  p_low: "trial_success_p_low",
+  p_high: "trial_success_p_high",
+  success_probability: "attempt_success_p",
+  rounds: "amplification_rounds",
+  "spectral:rounds": "state_preparations",
+  iterations: "grover_iterations",
+  "spectral:iterations": "lanczos_products",
+  steps: "expected_work",
+  steps_low: "expected_work_low",
+  steps_high: "expected_work_high",
+};
+
 /** The three per-observation tables. */
 export interface Tables {
   readonly instances: InstanceRow[];
@@ -36,9 +69,11 @@ export function buildTables(spec: StudySpec, records: ReadonlyArray<JournalRecor
     n: t.n,
     instance: t.index,
     seed: t.seed,
-    ...t.meta,
+    ...renamed(t.meta, INSTANCE_COLUMNS),
     optimum: t.optimum,
-    degeneracy: t.degeneracy,
+    // issue 16: exact even beyond 2^53 (the decimal digits), and the method that gave it.
+    degeneracy: t.degeneracy !== null && t.degeneracy >= 2 ** 53 && t.degeneracy_exact ? t.degeneracy_exact : t.degeneracy,
+    truth_method: t.truth_method ?? "enumeration",
     satisfiable: t.optimum === null || !isCnf(spec) ? null : t.optimum === 0,
     ...(familyNamed(spec.family).describe?.(t.meta, t.optimum) ?? {}),
     mean_cost: t.mean,
@@ -48,10 +83,14 @@ export function buildTables(spec: StudySpec, records: ReadonlyArray<JournalRecor
   const runs: RunRow[] = [];
   for (const t of truths) {
     runs.push({
-      family: spec.family, n: t.n, instance: t.index, solver: "exhaustive", run_length: null, status: t.status,
-      wall_ns: t.wall_ns, work: t.evaluated ?? t.assignments, floor_ns: t.floor_ns ?? null, trials: null, successes: null, p: null, p_low: null, p_high: null,
+      // issue 16: the counting methods report under their own name, with decisions as their work.
+      family: spec.family, n: t.n, instance: t.index, solver: truthSolver(t), run_length: null, status: t.status,
+      // The journal's wall_ns of a truth cell is the sum over its parallel slices: CPU time. Its elapsed time is
+      // elapsed_ns (absent in older journals: wall_ns stays empty). TTS is CPU time, independent of --workers.
+      wall_ns: t.elapsed_ns ?? null, cpu_ns: t.wall_ns, work: truthWork(t), floor_ns: t.floor_ns ?? null, trials: null, successes: null,
+      trial_success_p: null, trial_success_p_low: null, trial_success_p_high: null,
       work_per_trial: null, wall_ns_per_trial: null, tts_ns: t.status === "ok" ? t.wall_ns : null, tts_ns_low: null,
-      tts_ns_high: null, tts_work: t.status === "ok" ? (t.evaluated ?? t.assignments) : null, tts_work_low: null, message: t.message,
+      tts_ns_high: null, tts_work: t.status === "ok" ? truthWork(t) : null, tts_work_low: null, message: t.message,
     });
   }
   for (const r of runsRec) runs.push(runRow(spec, r));
@@ -72,7 +111,8 @@ export function buildTables(spec: StudySpec, records: ReadonlyArray<JournalRecor
     if (!predictor || r.status === "error" || r.trials === 0) continue;
     const row = runRow(spec, r);
     const parts = predictor.fromTrials!({
-      n: r.n, solver: r.solver, runLength: r.run_length, p: row.p ?? 0, pLow: row.p_low ?? undefined, pHigh: row.p_high ?? undefined,
+      n: r.n, solver: r.solver, runLength: r.run_length, p: row.trial_success_p ?? 0, pLow: row.trial_success_p_low ?? undefined,
+      pHigh: row.trial_success_p_high ?? undefined,
       workPerTrial: row.work_per_trial ?? undefined,
     });
     predictions.push(prediction({ family: spec.family, n: r.n, instance: r.index }, predictor.name, parts));
@@ -85,7 +125,7 @@ export function buildTables(spec: StudySpec, records: ReadonlyArray<JournalRecor
     predictions.push({
       family: spec.family, n: s.n, instance: s.index, predictor: s.predictor ?? "spectral", status: s.status,
       queries: null, queries_log2: null, queries_low: null, queries_high: null,
-      ...row, wall_ns: s.wall_ns, message: s.message,
+      ...renamed(row as Record<string, Cell>, PREDICTION_COLUMNS, s.predictor ?? "spectral"), wall_ns: s.wall_ns, message: s.message,
     } as PredictionRow);
   }
   markBestB(predictions);
@@ -122,8 +162,9 @@ function runRow(spec: StudySpec, r: RunRecord): RunRow {
   const finite = (x: number | null | undefined): number | null => (x === null || x === undefined || !Number.isFinite(x) ? null : x);
   return {
     family: spec.family, n: r.n, instance: r.index, solver: r.solver, run_length: r.run_length, status: r.status,
-    wall_ns: r.wall_ns, work: r.work, floor_ns: r.floor_ns ?? null, trials: r.trials, successes: r.successes,
-    p: tts ? tts.p : null, p_low: tts ? tts.p_low : null, p_high: tts ? tts.p_high : null,
+    // One worker ran the whole cell: its elapsed time is its CPU time.
+    wall_ns: r.wall_ns, cpu_ns: r.wall_ns, work: r.work, floor_ns: r.floor_ns ?? null, trials: r.trials, successes: r.successes,
+    trial_success_p: tts ? tts.p : null, trial_success_p_low: tts ? tts.p_low : null, trial_success_p_high: tts ? tts.p_high : null,
     work_per_trial: workPerTrial, wall_ns_per_trial: wallPerTrial,
     tts_ns: finite(tts?.tts), tts_ns_low: finite(tts?.tts_low), tts_ns_high: finite(tts?.tts_high),
     tts_work: finite(ttsWork?.tts),
@@ -152,7 +193,7 @@ function extraColumns(r: RunRecord): Record<string, Cell> {
     const best = bestCutoff(rld);
     out.rld_median_flips = Number.isFinite(median) ? median : null;
     out.rld_best_cutoff = best?.cutoff ?? null;
-    out.rld_best_p = best?.p ?? null;
+    out.rld_best_trial_success_p = best?.p ?? null;
     out.rld_best_tts_flips = best?.tts ?? null;
   }
   if (r.exchange_acceptance !== undefined) {
@@ -164,7 +205,7 @@ function extraColumns(r: RunRecord): Record<string, Cell> {
 }
 
 function prediction(base: { family: string; n: number; instance: number }, predictor: string, parts: object): PredictionRow {
-  const p = parts as Record<string, Cell>;
+  const p = renamed(parts as Record<string, Cell>, PREDICTION_COLUMNS);
   return {
     ...base, predictor, status: "ok",
     queries: (p.queries as number | null) ?? null,
@@ -173,4 +214,25 @@ function prediction(base: { family: string; n: number; instance: number }, predi
     queries_high: (p.queries_high as number | null) ?? null,
     ...p,
   };
+}
+
+// --- issue 16 (exact counting) ---
+/** Solver name of a truth cell in runs.csv: "exhaustive" for enumeration, else the counting method. */
+function truthSolver(t: TruthRecord): string {
+  return t.truth_method === "count" || t.truth_method === "maxsat" ? t.truth_method : "exhaustive";
+}
+
+/** Work of a truth cell: configurations evaluated by enumeration, decisions made by the counting methods. */
+function truthWork(t: TruthRecord): number {
+  return t.truth_method === "count" || t.truth_method === "maxsat" ? (t.nodes ?? 0) : (t.evaluated ?? t.assignments);
+}
+// --- end issue 16 ---
+
+/**
+ * A copy of `fields` with keys renamed by `names` (`key` or, with `scope`, `scope:key` first), order kept.
+ */
+function renamed(fields: Readonly<Record<string, Cell>>, names: Readonly<Record<string, string>>, scope?: string): Record<string, Cell> {
+  const out: Record<string, Cell> = {};
+  for (const [key, value] of Object.entries(fields)) out[(scope !== undefined ? names[`${scope}:${key}`] : undefined) ?? names[key] ?? key] = value;
+  return out;
 }

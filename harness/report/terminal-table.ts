@@ -120,7 +120,7 @@ export function comparisonLegend(rows: ReadonlyArray<ComparisonRow>, settings: s
   return (
     `a = fitted exponent of log2 cost per variable (quantile ${quantile} over instances), 95% bootstrap interval; ` +
     `ratio = a_classical/a_quantum (2 = quadratic), like measures only: work rows compare elementary operations with queries ` +
-    `(amplified solvers: steps with steps), time rows classical seconds / S with predicted quantum seconds; ` +
+    `(amplified solvers: expected work with work), time rows classical seconds / S with predicted quantum seconds; ` +
     `* = lowest classical exponent on the row's basis; classical time divided by S = ${parallelism}.` +
     (settings === "" ? "" : ` Settings: ${settings}.`)
   );

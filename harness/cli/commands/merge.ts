@@ -1,21 +1,20 @@
 /** `speedbound merge OUT DIRS..`: join the shard folders of one study. */
-import { mkdirSync } from "node:fs";
 import { join, resolve } from "node:path";
-import { EXIT, InputError } from "../../errors.js";
+import { EXIT } from "../../errors.js";
 import { OUT_FILES } from "../../engine/output-folder.js";
 import { writeOutputs } from "../../report/outputs.js";
 import { buildManifest } from "../../engine/manifest.js";
 import { writeFileAtomic } from "../../engine/files.js";
 import { formatComparison } from "../../report/paper.js";
 import { mergeShards, writeMerged } from "../../cluster/merge.js";
-import { type Args } from "./shared.js";
+import { mkdirOrFail, type Args } from "./shared.js";
 
 /** `speedbound merge OUT DIRS..`: join the shard folders of one study. */
 export async function merge(argv: Args, rawArgs: ReadonlyArray<string>): Promise<number> {
   const out = resolve(String(argv.out));
   const dirs = ((argv.dirs as string[] | undefined) ?? []).map((d) => resolve(d));
   const merged = mergeShards(dirs);
-  mkdirOrFail(out);
+  mkdirOrFail(out, "merge");
   writeMerged(out, merged);
   const started = new Date();
   const { paper } = await writeOutputs(merged.spec, out);
@@ -26,12 +25,4 @@ export async function merge(argv: Args, rawArgs: ReadonlyArray<string>): Promise
   process.stdout.write(formatComparison(paper) + "\n");
   process.stdout.write(`speedbound: merged ${merged.shards} shard(s), ${merged.records.length} cells, into ${out}\n`);
   return EXIT.ok;
-}
-
-export function mkdirOrFail(dir: string): void {
-  try {
-    mkdirSync(dir, { recursive: true });
-  } catch (e) {
-    throw new InputError(`${dir}: cannot create (${(e as NodeJS.ErrnoException).code ?? String(e)})`);
-  }
 }

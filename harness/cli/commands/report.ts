@@ -12,6 +12,8 @@ import { writeFileAtomic } from "../../engine/files.js";
 import { numberOption, resolveCostModel } from "../resolve.js";
 import { optionsOf } from "../options.js";
 import { DEFAULT_FLOOR_FACTOR } from "../../stats/floor.js";
+import { assertWritableFolder } from "../../engine/fs-guard.js";
+import { lockFolder } from "../../engine/folder-lock.js";
 import { writeOutputs } from "../../report/outputs.js";
 import { formatComparison } from "../../report/paper.js";
 import { type Args } from "./shared.js";
@@ -30,6 +32,17 @@ const COST_FIELDS: Readonly<Record<string, keyof StudySpec["costModel"]>> = {
 export async function report(argv: Args, rawArgs: ReadonlyArray<string> = []): Promise<number> {
   const dir = resolve(String(argv.dir));
   const { spec } = readStudyFolder(dir);
+  assertWritableFolder(dir, "report");
+  const lock = lockFolder(dir, "report", "report"); // not while a run writes the same folder
+  try {
+    return await rebuild(dir, argv, rawArgs, spec);
+  } finally {
+    lock.release();
+  }
+}
+
+/** Rebuilds the tables with the given report settings and records them in the manifest (under the folder lock). */
+async function rebuild(dir: string, argv: Args, rawArgs: ReadonlyArray<string>, spec: StudySpec): Promise<number> {
   // Defaults are not applied by the parser, so `undefined` means "not given": the study's own value stays.
   const given = (name: string): boolean => argv[name] !== undefined;
   const fitFrom = given("fit-from") ? numberOption(argv, "fit-from") : spec.report.fitFrom;

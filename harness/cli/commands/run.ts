@@ -6,6 +6,8 @@ import { runStudy } from "../../engine/run.js";
 import type { RunSummary } from "../../engine/run-summary.js";
 import { OUT_FILES } from "../../engine/output-folder.js";
 import { memoryNotes, parseDuration, parseShard, resolveStudy } from "../resolve.js";
+import { sizeRangeNote } from "../argv-guard.js";
+import { STREAM_SCHEME } from "../../engine/build-info.js";
 import { consoleProgress } from "../progress.js";
 import { writeOutputs } from "../../report/outputs.js";
 import { buildManifest } from "../../engine/manifest.js";
@@ -20,6 +22,8 @@ import { workersOf } from "./shared.js";
 /** `speedbound run`: resolve the study, run (or resume) it, write tables and manifest, print the comparison. */
 export async function run(argv: Args, rawArgs: ReadonlyArray<string>): Promise<number> {
   const spec = resolveStudy(argv);
+  const note = sizeRangeNote(argv.n, spec.sizes);
+  if (note) process.stderr.write(`speedbound: note: ${note}\n`);
   const out = resolve(String(argv.out ?? "results/latest"));
   const workers = workersOf(argv);
   const shard = argv.shard === undefined ? null : parseShard(String(argv.shard));
@@ -38,7 +42,7 @@ export async function run(argv: Args, rawArgs: ReadonlyArray<string>): Promise<n
     : [];
   const extra = {
     options: manifestOptions(argv, spec.family), budget_ms: budgetMs, cell_limit_ms: cellLimitMs,
-    resumed_at: resumedAt, report_settings: { settings: paper.settings ?? "" },
+    resumed_at: resumedAt, report_settings: { settings: paper.settings ?? "" }, stream_scheme: STREAM_SCHEME,
   };
   writeFileAtomic(join(out, OUT_FILES.manifest), JSON.stringify(buildManifest({ argv: rawArgs, spec, workers, shard, started: firstStart, ended: new Date(), summary, extra }), null, 2) + "\n");
   process.stdout.write(formatComparison(paper) + "\n");

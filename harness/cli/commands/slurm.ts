@@ -5,9 +5,10 @@ import { join, resolve } from "node:path";
 import { EXIT, InputError } from "../../errors.js";
 import { resolveStudy } from "../resolve.js";
 import { writeFileAtomic } from "../../engine/files.js";
+import { guardWrite } from "../../engine/fs-guard.js";
 import { SLURM_FILES, slurmScripts } from "../../cluster/slurm.js";
 import { type Args } from "./shared.js";
-import { mkdirOrFail } from "./merge.js";
+import { mkdirOrFail } from "./shared.js";
 
 const SLURM_ONLY = ["shards", "cpus-per-task", "time", "partition", "account", "mem-per-cpu", "job-name", "out", "workers", "shard"];
 
@@ -32,10 +33,10 @@ export async function slurm(argv: Args, rawArgs: ReadonlyArray<string>): Promise
     workDir: process.cwd(),
   });
   const dir = join(out, "slurm");
-  mkdirOrFail(dir);
+  mkdirOrFail(dir, "--out");
   for (const [name, file] of Object.entries(SLURM_FILES) as Array<[keyof typeof SLURM_FILES, string]>) {
     writeFileAtomic(join(dir, file), scripts[name]);
-    chmodSync(join(dir, file), 0o755);
+    guardWrite("slurm", join(dir, file), () => chmodSync(join(dir, file), 0o755));
   }
   process.stdout.write(`speedbound: wrote ${Object.values(SLURM_FILES).map((f) => join(dir, f)).join(", ")}\n`);
   process.stdout.write(`speedbound: submit with: bash ${join(dir, SLURM_FILES.submit)}\n`);

@@ -1,5 +1,5 @@
 /** `speedbound solve FILE`: exact optimum and degeneracy of one instance file, over the worker pool. */
-import { computeGroundTruth, type GroundTruth } from "../../engine/ground-truth.js";
+import { computeGroundTruth, computeGroundTruthHere, groundTruthIsOnePart, type GroundTruth } from "../../engine/ground-truth.js";
 import { readFileSync } from "node:fs";
 import { resolve } from "node:path";
 import { EXIT, InputError } from "../../errors.js";
@@ -31,23 +31,31 @@ export async function solve(argv: Args): Promise<number> {
   const n = sizeOf(problem);
   const exact = groundTruthSolver(problem.kind, false, n);
   const limit = exact.maxSize(problem.kind, false);
-  if (n > limit) throw new InputError(`${file}: n = ${n} is beyond the exact-enumeration limit of ${limit}`);
-  const workers = workersOf(argv);
-  const pool = new WorkerPool(workers);
+  if (n > limit) throw new InputError(`${file}: n = ${n} is beyond the exact ground-truth limit of ${limit} (the largest n an exact solver accepts: ${exact.name})`);
   const stop = new Int32Array(new SharedArrayBuffer(8));
   const ctx = { family: problem.kind === "cnf" ? "cnf" : "ising", params: {}, masterSeed: "", n, index: 0, file: resolve(file) };
+  // One part (counting, small enumerations): computed in this thread, since starting worker threads would
+  // cost more than the work (issue 16: a 100-variable count takes about 0.1 s).
+  const inThread = groundTruthIsOnePart(problem, workersOf(argv));
+  const workers = inThread ? 1 : workersOf(argv);
   const start = process.hrtime.bigint();
   let truth: GroundTruth;
-  try {
-    truth = await computeGroundTruth(pool, problem, ctx, workers, stop);
-  } finally {
-    await pool.close();
+  if (inThread) truth = computeGroundTruthHere(problem, workers, stop);
+  else {
+    const pool = new WorkerPool(workers);
+    try {
+      truth = await computeGroundTruth(pool, problem, ctx, workers, stop);
+    } finally {
+      await pool.close();
+    }
   }
   const wall = Number(process.hrtime.bigint() - start);
   const r = truth.merged;
+  // issue 16: degeneracy stays exact beyond 2^53 (a decimal string there); the method is named.
+  const degeneracy = r.degeneracy >= 2 ** 53 && r.degeneracyExact ? r.degeneracyExact : r.degeneracy;
   const result =
     problem.kind === "cnf"
-      ? { file, variables: n, clauses: problem.cnf.offsets.length - 1, optimum: r.optimum, degeneracy: r.degeneracy, satisfiable: r.optimum === 0, assignments: r.assignments, wall_ns: wall, workers }
+      ? { file, variables: n, clauses: problem.cnf.offsets.length - 1, optimum: r.optimum, degeneracy, satisfiable: r.optimum === 0, assignments: r.assignments, method: r.method ?? "enumeration", wall_ns: wall, workers }
       : { file, spins: n, terms: problem.ising.coefficients.length, optimum: r.optimum, degeneracy: r.degeneracy, degeneracy_tolerance: costTolerance(problem), assignments: r.assignments, wall_ns: wall, workers };
   if (argv.json) process.stdout.write(JSON.stringify(result) + "\n");
   else for (const [k, v] of Object.entries(result)) process.stdout.write(`${k.padEnd(22)} ${String(v)}\n`);

@@ -44,7 +44,7 @@ type Datum = Record<string, number | string | boolean | null>;
 
 /** Classical work measures in order of preference; the same rule as comparison.csv. */
 const WORK_SOLVER: ReadonlyArray<Measure> = ["tts_work", "work"];
-const TIME_SOLVER: ReadonlyArray<Measure> = ["tts_ns", "wall_ns"];
+const TIME_SOLVER: ReadonlyArray<Measure> = ["tts_ns", "cpu_ns"];
 
 function pickSeries(rows: ReadonlyArray<SizeRow>, solverMeasures: ReadonlyArray<Measure>, predictorMeasure: (m: string) => Measure, unit: (m: Measure) => string): Series[] {
   const methods = [...new Set(rows.map((r) => `${r.method_kind}\u0000${r.method}`))].sort((a, b) =>
@@ -165,13 +165,13 @@ function scalingSpec(args: {
 }
 
 const WORK_UNIT = (m: Measure): string =>
-  m === "tts_work" ? "work to solution" : m === "work" ? "work" : m === "queries" ? "oracle queries" : m === "runtime_scale" ? "time scale 1/gap², not operations" : "steps in amplified runs";
+  m === "tts_work" ? "work to solution" : m === "work" ? "work" : m === "queries" ? "oracle queries" : m === "runtime_scale" ? "time scale 1/gap², not operations" : "work in amplified runs";
 
 /** work-FAMILY.svg (see the module comment). */
 export async function workFigureSvg(sizes: ReadonlyArray<SizeRow>, fits: ReadonlyArray<FitRow>, ctx: FigureContext): Promise<string> {
   const rows = sizes.filter((r) => r.family === ctx.family && r.optimal_run_length);
   // A predictor with its own measure (adiabatic 1/gap²) is drawn in it and its label says it is not an operation count.
-  const series = pickSeries(rows, WORK_SOLVER, (m) => (ownMeasure(m)?.column as Measure | undefined) ?? (amplifiedSource(m) !== null ? "steps" : "queries"), WORK_UNIT);
+  const series = pickSeries(rows, WORK_SOLVER, (m) => (ownMeasure(m)?.column as Measure | undefined) ?? (amplifiedSource(m) !== null ? "expected_work" : "queries"), WORK_UNIT);
   const points = series.flatMap((s) => seriesPoints(rows, s, (v) => v));
   const lines: Datum[] = [];
   for (const s of series) {
@@ -184,7 +184,7 @@ export async function workFigureSvg(sizes: ReadonlyArray<SizeRow>, fits: Readonl
       title: `${ctx.family}: work, classical operations against quantum queries (median over instances)`,
       caption: [
         "Classical: assignments evaluated (exhaustive), flips (walk), spin-update attempts (anneal), to a 99 % solution; quantum: oracle queries,",
-        "amplified solvers in the steps of their reversible trial runs. Bars: 95 % bootstrap intervals. Open markers: median censored, drawn at its lower bound.",
+        "amplified solvers in the elementary operations (expected_work) of their reversible trial runs. Bars: 95 % bootstrap intervals. Open markers: median censored, drawn at its lower bound.",
       ],
       yTitle: "log2 median operations",
       nTitle: `n (${ctx.nCounts})`,
@@ -203,7 +203,7 @@ export async function timeFigureSvg(
   ctx: FigureContext,
 ): Promise<string> {
   const rows = sizes.filter((r) => r.family === ctx.family && r.optimal_run_length);
-  const unit = (m: Measure): string => (m === "tts_ns" ? "s to solution / S" : m === "wall_ns" ? "wall s / S" : "predicted s");
+  const unit = (m: Measure): string => (m === "tts_ns" ? "s to solution / S" : m === "cpu_ns" ? "CPU s / S" : "predicted s");
   const series = pickSeries(rows, TIME_SOLVER, () => "queries", unit);
   const toSeconds = (s: Series) => (v: number, n: number): number =>
     s.kind === "solver" ? (v * 1e-9) / ctx.parallelism : v * ctx.secondsPerQuery(ctx.family, s.method, n);
@@ -281,7 +281,7 @@ export async function instancesFigureSvg(tables: Tables, sizes: ReadonlyArray<Si
       if (r.family !== ctx.family || r.solver !== solverRow.method || r.n !== n || r.run_length !== solverRow.run_length) continue;
       if (r.status === "error" || r.status === "wrong" || r.status === "skipped") continue;
       const censored = r.status === "censored" || r.successes === 0;
-      const v = censored ? (r.tts_ns_low ?? r.wall_ns) : r.tts_ns;
+      const v = censored ? (r.tts_ns_low ?? r.cpu_ns) : r.tts_ns;
       if (v !== null && v > 0) classical.set(r.instance, { v: (v * 1e-9) / ctx.parallelism, censored });
     }
     const predictors = [...new Set(tables.predictions.filter((p) => p.n === n && p.family === ctx.family).map((p) => p.predictor))].sort();
