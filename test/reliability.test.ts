@@ -77,7 +77,7 @@ describe("bad input: one line, exit 2", () => {
     ["repeated -n as --n", ["run", "-n", "10", "--n", "12"], /^speedbound: --n: given more than once/],
     ["an older spelling repeats its new name", ["run", "--b-scan", "0:1:0.5", "--spectral-b-scan", "0:1:0.5"], /^speedbound: --spectral-b-scan: given more than once/],
     ["repeated --cell-limit as --cellLimit", ["run", "--cell-limit", "1s", "--cellLimit", "2s"], /^speedbound: --cell-limit: given more than once/],
-    ["unknown command", ["rn"], /^speedbound: unknown command 'rn' \(did you mean run\?\); commands: run, demo, solve, instance, report, spectral, merge, compare, slurm, cost$/],
+    ["unknown command", ["rn"], /^speedbound: unknown command 'rn' \(did you mean run\?\); commands: run, demo, solve, instance, report, spectral, adiabatic, merge, compare, slurm, cost$/],
   ];
   for (const [name, args, pattern] of cases) {
     it(name, () => {
