@@ -16,6 +16,7 @@
  *    gives the optimum (earlier passes proved that fewer violations are impossible) and its degeneracy.
  * Pure: no clock, console or file; polls the stop flag every few hundred nodes and inside the counter.
  */
+import { indexClauses } from "./clause-index.js";
 import type { Cnf } from "../harness/model/cnf.js";
 import { countModels } from "./count-cnf.js";
 import { stopRequested, type StopFlag } from "./types.js";
@@ -127,27 +128,12 @@ class MaxsatKernel {
     }
     const m = kept.length;
     this.m = m;
-    let total = 0;
-    for (const c of kept) total += c.length;
-    this.lits = new Int32Array(total);
-    this.start = new Int32Array(m + 1);
-    this.len = new Int32Array(m);
-    const occCount = new Int32Array(2 * n + 1);
-    let at = 0;
-    kept.forEach((c, i) => {
-      this.start[i] = at;
-      this.len[i] = c.length;
-      for (const code of c) {
-        this.lits[at++] = code;
-        occCount[code]++;
-      }
-    });
-    this.start[m] = at;
-    this.occStart = new Int32Array(2 * n + 1);
-    for (let l = 0; l < 2 * n; l++) this.occStart[l + 1] = this.occStart[l] + occCount[l];
-    this.occ = new Int32Array(total);
-    const fill = this.occStart.slice();
-    for (let c = 0; c < m; c++) for (let i = this.start[c]; i < this.start[c + 1]; i++) this.occ[fill[this.lits[i]]++] = c;
+    const index = indexClauses(kept, n);
+    this.lits = index.lits;
+    this.start = index.start;
+    this.len = index.len;
+    this.occStart = index.occStart;
+    this.occ = index.occ;
     this.nTrue = new Int32Array(m);
     this.nFalse = new Int32Array(m);
     this.value = new Uint8Array(n).fill(UNASSIGNED);
