@@ -61,6 +61,12 @@ export interface RunRow {
   /** Lower end of its interval (a lower bound when no trial succeeded). */
   tts_work_low: number | null;
   message: string;
+  /**
+   * Per-trial steps to solution (−1 = not solved within run_length) for solvers that record a run-length
+   * distribution; read by the report's fine-grid run-length rule (report/run-length-grid.ts). Not a runs.csv
+   * column (a CSV cell holds one value): rows built from the journal carry it as a non-enumerable property.
+   */
+  steps_to_solution?: ReadonlyArray<number>;
 }
 
 /** One row of predictions.csv: one quantum predictor on one instance. */

@@ -14,7 +14,7 @@ import { compareGrowthModels } from "../stats/growth-model.js";
 import { runLengthEdges } from "../stats/run-length-edge.js";
 import { medianFloor } from "./sizes.js";
 import {
-  PREDICTION_MEASURES, RUN_MEASURES, cellKey, collect, optimalRunLengths, sampleOf, sep, seriesKey,
+  FINE_GRID_RULE, PREDICTION_MEASURES, RUN_MEASURES, cellKey, collect, optimalRunLengths, sampleOf, sep, seriesKey,
   type Group, type Measure, type MethodKind, type SummaryOptions,
 } from "./observations.js";
 
@@ -114,16 +114,24 @@ export function fitStudy(
   const runLengthMeasure = options.runLengthMeasure ?? "tts_work";
   const floorFactor = options.floorFactor ?? DEFAULT_FLOOR_FACTOR;
   const c = collect(runs, predictions);
-  const { optimal, candidates } = optimalRunLengths(c, runLengthMeasure);
+  const { optimal, candidates, derived, superseded, fineGrid } = optimalRunLengths(c, runLengthMeasure);
   // Series → its optimal groups, one per size.
   const series = new Map<string, { family: string; kind: MethodKind; method: string; measure: Measure; groups: Group[]; runLengths: Map<number, Set<number | null>> }>();
-  for (const g of c.groups.values()) {
+  const isTts = (m: Measure): boolean => m === "tts_work" || m === "tts_ns";
+  for (const g of [...c.groups.values(), ...derived]) {
     const key = seriesKey(g.family, g.kind, g.method) + sep + g.measure;
+    const ck = cellKey(g.family, g.kind, g.method, g.runLength, g.n);
+    if (g.derivedFrom !== undefined) {
+      // A TTS at the size's fine-grid cut-off (from run-length distributions).
+      if (!series.has(key)) series.set(key, { family: g.family, kind: g.kind, method: g.method, measure: g.measure, groups: [], runLengths: new Map() });
+      if (g.obs.size > 0) series.get(key)!.groups.push(g);
+      continue;
+    }
     if (!series.has(key)) series.set(key, { family: g.family, kind: g.kind, method: g.method, measure: g.measure, groups: [], runLengths: new Map() });
     const s = series.get(key)!;
     if (!s.runLengths.has(g.n)) s.runLengths.set(g.n, new Set());
     s.runLengths.get(g.n)!.add(g.runLength);
-    if (optimal.has(cellKey(g.family, g.kind, g.method, g.runLength, g.n)) && g.obs.size > 0) s.groups.push(g);
+    if (optimal.has(ck) && !(superseded.has(ck) && isTts(g.measure)) && g.obs.size > 0) s.groups.push(g);
   }
   const rows: FitRow[] = [];
   for (const s of series.values()) {
@@ -136,7 +144,8 @@ export function fitStudy(
     const floorApplies = s.kind === "solver" && basis === "time";
     if (floorApplies) {
       const points = groups.map((g) => {
-        const ck = cellKey(g.family, g.kind, g.method, g.runLength, g.n);
+        // A fine-grid TTS group is timed by the cell it was derived from.
+        const ck = cellKey(g.family, g.kind, g.method, g.derivedFrom ?? g.runLength, g.n);
         const wall = c.groups.get(ck + sep + "cpu_ns"); // floor_ns is CPU time too (summed over slices)
         const sample = wall === undefined ? null : sampleOf(wall);
         const medianWall = sample === null ? null : censoredQuantile(sample.values, sample.censored, 0.5).value;
@@ -162,7 +171,8 @@ export function fitStudy(
     });
     const several = [...s.runLengths.values()].some((set) => set.size > 1);
     const hasRunLength = [...s.runLengths.values()].some((set) => [...set].some((rl) => rl !== null));
-    const rule = several ? `per-size optimal run length (smallest median ${runLengthMeasure})` : "";
+    const fine = fineGrid.has(seriesKey(s.family, s.kind, s.method));
+    const rule = fine ? FINE_GRID_RULE : several ? `per-size optimal run length (smallest median ${runLengthMeasure})` : "";
     for (const f of fits) {
       const flags: string[] = [];
       if (floorFlag !== "") flags.push(floorFlag);

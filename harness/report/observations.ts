@@ -14,11 +14,17 @@
  *   The choice is made from work, which is deterministic for a given seed, so a work exponent cannot move
  *   between two runs of one study because of timing noise (issue 13); it is made on the point estimate and not
  *   re-made inside the bootstrap.
+ * - Randomised solvers whose rows carry per-trial steps to solution (`steps_to_solution`): the TTS is derived per
+ *   instance at a fine grid of cut-offs from 1 flip to the cap (report/run-length-grid.ts, 24 per decade), the
+ *   per-size cut-off is the one with the smallest median TTS in flips, and the TTS measures (tts_work, tts_ns) are
+ *   fitted at that cut-off; the edge rule sees that fine grid. With several caps at one size the largest cap's
+ *   distributions are used. Rows without distributions are treated as above.
  */
 import type { PredictionRow, RunRow } from "../types.js";
 import { PREDICTORS } from "../predict/registry.js";
 import { censoredQuantile } from "../stats/censoring.js";
 import type { SizeRunLengths } from "../stats/run-length-edge.js";
+import { chooseCutoffOnGrid, distributionOfRow, RLD_GRID_PER_DECADE, type InstanceDistribution } from "./run-length-grid.js";
 
 /** Whether a row of the report describes a classical solver or a quantum predictor. */
 export type MethodKind = "solver" | "predictor";
@@ -74,6 +80,8 @@ export interface Group {
   measure: Measure;
   obs: Map<number, Observation>;
   missing: Set<number>;
+  /** For a TTS group derived from run-length distributions: the cap (run length) of the cell it comes from. */
+  derivedFrom?: number;
 }
 
 export interface Collected {
@@ -84,6 +92,8 @@ export interface Collected {
   measures: Map<string, Set<Measure>>;
   /** Fixed per-cell cost (floor_ns) per cell key (family, kind, method, run length, n), per instance. */
   floors: Map<string, Map<number, number>>;
+  /** Per cell key: per instance its run-length distribution, for rows that carry `steps_to_solution`. */
+  distributions: Map<string, Map<number, InstanceDistribution>>;
 }
 
 export const sep = "\u0000";
@@ -100,6 +110,7 @@ export function collect(runs: ReadonlyArray<RunRow>, predictions: ReadonlyArray<
   const errors = new Map<string, Set<number>>();
   const measures = new Map<string, Set<Measure>>();
   const floors = new Map<string, Map<number, number>>();
+  const distributions = new Map<string, Map<number, InstanceDistribution>>();
   const add = (
     family: string,
     kind: MethodKind,
@@ -161,6 +172,7 @@ export function collect(runs: ReadonlyArray<RunRow>, predictions: ReadonlyArray<
     if (row.status === "skipped") continue; // not applicable to this instance: no observation at all
     if (row.status === "error" || row.status === "wrong") { // a wrong external answer is never a success
       addError(row.family, "solver", row.solver, row.run_length, row.n, row.instance);
+      distributions.get(cellKey(row.family, "solver", row.solver, row.run_length, row.n))?.delete(row.instance);
       continue;
     }
     const ck = cellKey(row.family, "solver", row.solver, row.run_length, row.n);
@@ -168,6 +180,10 @@ export function collect(runs: ReadonlyArray<RunRow>, predictions: ReadonlyArray<
       if (!floors.has(ck)) floors.set(ck, new Map());
       floors.get(ck)!.set(row.instance, row.floor_ns);
     }
+    const dist = distributionOfRow(row);
+    if (!distributions.has(ck)) distributions.set(ck, new Map());
+    if (dist !== null) distributions.get(ck)!.set(row.instance, dist);
+    else distributions.get(ck)!.delete(row.instance); // the last row of an instance counts
     for (const m of RUN_MEASURES) {
       add(row.family, "solver", row.solver, row.run_length, row.n, row.instance, m, row as unknown as Record<string, unknown>, row.status === "censored");
     }
@@ -186,7 +202,7 @@ export function collect(runs: ReadonlyArray<RunRow>, predictions: ReadonlyArray<
   for (const [key, group] of groups) {
     if (!measures.get(seriesKey(group.family, group.kind, group.method))?.has(group.measure)) groups.delete(key);
   }
-  return { groups, errors, measures, floors };
+  return { groups, errors, measures, floors, distributions };
 }
 
 /**
@@ -211,14 +227,27 @@ export function sampleOf(group: Group): { values: number[]; censored: boolean[] 
   };
 }
 
+/** What {@link optimalRunLengths} decides. */
+export interface OptimalRunLengths {
+  /** Cell keys (family, kind, method, run length, n) the fits use. */
+  optimal: Set<string>;
+  /** The rule's flag per cell key when the choice is uncertain. */
+  flags: Map<string, string>;
+  /** Per series key: the per-size grid the edge rule sees (scanned run lengths, or the fine cut-off grid). */
+  candidates: Map<string, SizeRunLengths[]>;
+  /** TTS groups (tts_work, tts_ns) derived from run-length distributions at each size's chosen cut-off. */
+  derived: Group[];
+  /** Cell keys whose own TTS groups are replaced by {@link derived} ones (their other measures stay optimal). */
+  superseded: Set<string>;
+  /** Series keys for which at least one size was chosen on the fine grid. */
+  fineGrid: Set<string>;
+}
+
 /**
- * Per (family, solver, n): the optimal run length. Returns a set of cell keys (family, kind, method, run length, n)
- * that are optimal, and the rule's flag per key when the choice is uncertain.
+ * Per (family, solver, n): the optimal run length, from the scanned run lengths or, where the rows carry
+ * run-length distributions, from a fine grid of cut-offs (see the module comment).
  */
-export function optimalRunLengths(
-  c: Collected,
-  preferred: Measure,
-): { optimal: Set<string>; flags: Map<string, string>; candidates: Map<string, SizeRunLengths[]> } {
+export function optimalRunLengths(c: Collected, preferred: Measure): OptimalRunLengths {
   const cells = new Map<string, { family: string; kind: MethodKind; method: string; runLength: number | null; n: number }>();
   for (const g of c.groups.values()) {
     cells.set(cellKey(g.family, g.kind, g.method, g.runLength, g.n), g);
@@ -276,5 +305,51 @@ export function optimalRunLengths(
     optimal.add(best.key);
     if (!best.defined) flags.set(best.key, `no run length has a defined median ${measure}; chose the smallest lower bound`);
   }
-  return { optimal, flags, candidates };
+  const derived: Group[] = [];
+  const superseded = new Set<string>();
+  const fineGrid = new Set<string>();
+  for (const [sizeKey, list] of bySize) {
+    const [family, kind, method, nText] = sizeKey.split(sep) as [string, MethodKind, string, string];
+    if (kind !== "solver") continue;
+    const n = Number(nText);
+    // The cell with the largest cap whose every instance with a TTS carries a distribution.
+    let source: { key: string; cap: number; dists: Map<number, InstanceDistribution> } | null = null;
+    for (const { runLength, key } of list) {
+      const dists = c.distributions.get(key);
+      const tts = c.groups.get(key + sep + "tts_work");
+      if (runLength === null || dists === undefined || dists.size === 0 || tts === undefined || tts.obs.size === 0) continue;
+      if (![...tts.obs.keys()].every((i) => dists.has(i))) continue;
+      if (source === null || runLength > source.cap) source = { key, cap: runLength, dists };
+    }
+    if (source === null) continue;
+    const instances = new Map([...source.dists].filter(([i]) => c.groups.get(source!.key + sep + "tts_work")!.obs.has(i)));
+    const choice = chooseCutoffOnGrid(instances);
+    if (choice.cutoff === null) continue; // nothing solved within the cap: keep the rows' own TTS lower bounds
+    const sk = seriesKey(family, kind, method);
+    const sizeGrid = candidates.get(sk)?.find((g) => g.n === n);
+    if (sizeGrid !== undefined) (sizeGrid.points as Array<{ runLength: number; tts: number | null }>).splice(0, Infinity, ...choice.points);
+    for (const { key } of list) {
+      optimal.delete(key);
+      flags.delete(key);
+    }
+    optimal.add(source.key);
+    superseded.add(source.key);
+    fineGrid.add(sk);
+    const seriesMeasures = c.measures.get(sk) ?? new Set<Measure>();
+    for (const measure of ["tts_work", "tts_ns"] as const) {
+      if (!seriesMeasures.has(measure)) continue;
+      const obs = new Map<number, Observation>();
+      const missing = new Set<number>();
+      for (const [i, v] of choice.atChoice) {
+        const value = measure === "tts_work" ? v.work : v.ns;
+        if (Number.isFinite(value)) obs.set(i, { value, censored: v.censored });
+        else missing.add(i);
+      }
+      derived.push({ family, kind, method, runLength: choice.cutoff, n, measure, obs, missing, derivedFrom: source.cap });
+    }
+  }
+  return { optimal, flags, candidates, derived, superseded, fineGrid };
 }
+
+/** How the fine-grid rule is worded in fits.csv and sizes.csv. */
+export const FINE_GRID_RULE = `per-size optimal cut-off from the run-length distributions (${RLD_GRID_PER_DECADE} per decade from 1 flip to the cap; smallest median tts_work)`;

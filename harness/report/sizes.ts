@@ -10,7 +10,7 @@ import { DEFAULT_BOOTSTRAP_SEED, DEFAULT_LEVEL, DEFAULT_RESAMPLES } from "../sta
 import { bootstrapCensoredQuantiles, censoredQuantile } from "../stats/censoring.js";
 import { REPORTED_QUANTILES } from "../stats/quantiles.js";
 import {
-  PREDICTION_MEASURES, RUN_MEASURES, cellKey, collect, optimalRunLengths, sampleOf, sep, seriesKey,
+  FINE_GRID_RULE, PREDICTION_MEASURES, RUN_MEASURES, cellKey, collect, optimalRunLengths, sampleOf, sep, seriesKey,
   type Measure, type MethodKind, type SummaryOptions,
 } from "./observations.js";
 
@@ -71,12 +71,15 @@ export function summariseSizes(
   const seed = options.seed ?? DEFAULT_BOOTSTRAP_SEED;
   const level = options.level ?? DEFAULT_LEVEL;
   const c = collect(runs, predictions);
-  const { optimal, flags: optimalFlags } = optimalRunLengths(c, options.runLengthMeasure ?? "tts_ns");
+  const { optimal, flags: optimalFlags, derived, superseded } = optimalRunLengths(c, options.runLengthMeasure ?? "tts_ns");
   const rows: SizeRow[] = [];
   const emitted = new Set<string>();
-  for (const g of c.groups.values()) {
+  for (const g of [...c.groups.values(), ...derived]) {
     const ck = cellKey(g.family, g.kind, g.method, g.runLength, g.n);
-    emitted.add(ck);
+    const isDerived = g.derivedFrom !== undefined;
+    // A cell whose TTS is replaced by the fine-grid one: its own TTS rows are not the ones fitted.
+    const isOptimal = isDerived || (optimal.has(ck) && !(superseded.has(ck) && (g.measure === "tts_work" || g.measure === "tts_ns")));
+    if (!isDerived) emitted.add(ck);
     const s = sampleOf(g);
     const qs = bootstrapCensoredQuantiles(s.values, s.censored, REPORTED_QUANTILES, {
       resamples,
@@ -88,18 +91,19 @@ export function summariseSizes(
     else for (const q of qs) if (q.flag !== "") flags.push(q.flag);
     if (g.missing.size > 0) flags.push(`${g.missing.size} rows without ${g.measure}`);
     const of = optimalFlags.get(ck);
-    if (of !== undefined) flags.push(of);
+    if (of !== undefined && !isDerived) flags.push(of);
+    if (isDerived) flags.push(`${FINE_GRID_RULE}: TTS at cut-off ${g.runLength} of cap ${g.derivedFrom}`);
     rows.push({
       family: g.family,
       n: g.n,
       method_kind: g.kind,
       method: g.method,
       run_length: g.runLength,
-      optimal_run_length: optimal.has(ck),
+      optimal_run_length: isOptimal,
       measure: g.measure,
       instances: g.obs.size,
       censored: s.censored.filter(Boolean).length,
-      errors: c.errors.get(ck)?.size ?? 0,
+      errors: isDerived ? 0 : c.errors.get(ck)?.size ?? 0,
       median: qs[0]!.value,
       median_low: qs[0]!.low,
       median_high: qs[0]!.high,
@@ -110,7 +114,7 @@ export function summariseSizes(
       q90_low: qs[2]!.low,
       q90_high: qs[2]!.high,
       median_at_least: qs[0]!.value === null && qs[0]!.lower > 0 && Number.isFinite(qs[0]!.lower) ? qs[0]!.lower : null,
-      floor_ns: medianFloor(c.floors.get(ck)),
+      floor_ns: medianFloor(c.floors.get(isDerived ? cellKey(g.family, g.kind, g.method, g.derivedFrom!, g.n) : ck)),
       resamples,
       flag: flags.join("; "),
     });

@@ -155,6 +155,13 @@ function isCnf(spec: StudySpec): boolean {
 }
 
 function runRow(spec: StudySpec, r: RunRecord): RunRow {
+  const row = runRowColumns(spec, r);
+  // The distribution travels with the row for the report's fine-grid rule, but is no runs.csv column.
+  if (r.steps_to_solution !== undefined) Object.defineProperty(row, "steps_to_solution", { value: r.steps_to_solution, enumerable: false });
+  return row;
+}
+
+function runRowColumns(spec: StudySpec, r: RunRecord): RunRow {
   const wallPerTrial = r.trials > 0 ? r.wall_ns / r.trials : null;
   const workPerTrial = r.trials > 0 ? r.work / r.trials : null;
   const tts = r.trials > 0 && wallPerTrial !== null ? ttsFromCounts(r.successes, r.trials, wallPerTrial) : null;
