@@ -100,6 +100,12 @@ describe("report: fine-grid run length from run-length distributions", () => {
     expect(f.run_length_rule).toContain("24 per decade");
   });
 
+  it("fits: the cap's own measures (work, cpu_ns) keep the scanned grid (one run length: not scanned)", () => {
+    const f = fits.find((r) => r.method === "rldwalk" && r.measure === "work" && r.quantile === 0.5)!;
+    expect(f.exponent_status).toBe("not scanned");
+    expect(f.run_length_rule).toBe("");
+  });
+
   it("fits: with the optimum inside the grid at every size the exponent is an estimate", () => {
     const f = fitStudy(runs, [], { ...options, fitTo: 14 }).find((r) => r.method === "rldwalk" && r.measure === "tts_work" && r.quantile === 0.5)!;
     expect(f.exponent_status).toBe("estimate");

@@ -114,7 +114,7 @@ export function fitStudy(
   const runLengthMeasure = options.runLengthMeasure ?? "tts_work";
   const floorFactor = options.floorFactor ?? DEFAULT_FLOOR_FACTOR;
   const c = collect(runs, predictions);
-  const { optimal, candidates, derived, superseded, fineGrid } = optimalRunLengths(c, runLengthMeasure);
+  const { optimal, candidates, derived, superseded, fineGrid, scanned } = optimalRunLengths(c, runLengthMeasure);
   // Series → its optimal groups, one per size.
   const series = new Map<string, { family: string; kind: MethodKind; method: string; measure: Measure; groups: Group[]; runLengths: Map<number, Set<number | null>> }>();
   const isTts = (m: Measure): boolean => m === "tts_work" || m === "tts_ns";
@@ -171,7 +171,9 @@ export function fitStudy(
     });
     const several = [...s.runLengths.values()].some((set) => set.size > 1);
     const hasRunLength = [...s.runLengths.values()].some((set) => [...set].some((rl) => rl !== null));
-    const fine = fineGrid.has(seriesKey(s.family, s.kind, s.method));
+    // The fine cut-off grid concerns the TTS measures only; cpu_ns and work are the cost of the runs at their cap.
+    const fine = fineGrid.has(seriesKey(s.family, s.kind, s.method)) && isTts(s.measure);
+    const edgeGrid = fineGrid.has(seriesKey(s.family, s.kind, s.method)) && !fine ? scanned : candidates;
     const rule = fine ? FINE_GRID_RULE : several ? `per-size optimal run length (smallest median ${runLengthMeasure})` : "";
     for (const f of fits) {
       const flags: string[] = [];
@@ -184,7 +186,7 @@ export function fitStudy(
       // 3. Run-length edges, over the sizes this fit used.
       let status = "";
       if (hasRunLength) {
-        const edge = runLengthEdges(candidates.get(seriesKey(s.family, s.kind, s.method)) ?? [], f.used.map((u) => u.n));
+        const edge = runLengthEdges(edgeGrid.get(seriesKey(s.family, s.kind, s.method)) ?? [], f.used.map((u) => u.n));
         status = edge.status;
         if (edge.flag !== "") flags.push(edge.flag);
       }

@@ -241,6 +241,8 @@ export interface OptimalRunLengths {
   superseded: Set<string>;
   /** Series keys for which at least one size was chosen on the fine grid. */
   fineGrid: Set<string>;
+  /** Per series key: the scanned run lengths only (the grid of the measures taken at the cap: cpu_ns, work). */
+  scanned: Map<string, SizeRunLengths[]>;
 }
 
 /**
@@ -305,6 +307,7 @@ export function optimalRunLengths(c: Collected, preferred: Measure): OptimalRunL
     optimal.add(best.key);
     if (!best.defined) flags.set(best.key, `no run length has a defined median ${measure}; chose the smallest lower bound`);
   }
+  const scanned = new Map([...candidates].map(([k, list]) => [k, list.map((g) => ({ n: g.n, points: [...g.points] }))]));
   const derived: Group[] = [];
   const superseded = new Set<string>();
   const fineGrid = new Set<string>();
@@ -348,7 +351,7 @@ export function optimalRunLengths(c: Collected, preferred: Measure): OptimalRunL
       derived.push({ family, kind, method, runLength: choice.cutoff, n, measure, obs, missing, derivedFrom: source.cap });
     }
   }
-  return { optimal, flags, candidates, derived, superseded, fineGrid };
+  return { optimal, flags, candidates, derived, superseded, fineGrid, scanned };
 }
 
 /** How the fine-grid rule is worded in fits.csv and sizes.csv. */
