@@ -9,9 +9,9 @@
  * harness/stats/run-length.ts), from which the success probability and TTS at any cut-off follow.
  *
  * Defaults per clause length k ({@link defaultBreakwalkRule}): k ≤ 3 polynomial cb = 2.38, ε = 1; k = 4, 5, 6
- * exponential cb = 3.0, 3.6, 4.4; k ≥ 7 exponential cb = 4.4. These are the values attributed to the SAT 2012
- * paper in a public third-party implementation (github.com/SRechenberger/probSAT, its `defaultCB` table); we
- * could not read the paper's table itself. The authors' later competition code uses tuned values (k = 3:
+ * exponential cb = 3.0, 3.6, 4.4; k ≥ 7 exponential cb = 4.4. From memory of the SAT 2012 paper (its table could
+ * not be read here); a public third-party implementation of the method carries the same table and attributes it
+ * to that paper. The authors' later competition code uses tuned values (k = 3:
  * cb = 2.06, ε = 0.9; k = 4, 5, 6, 7: cb = 2.85, 3.7, 5.1, 5.4); pass --breakwalk-cb/--breakwalk-eps for those.
  *
  * Bookkeeping: per clause its true-literal count and the XOR of its true variables (which names the critical
