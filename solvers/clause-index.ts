@@ -4,6 +4,45 @@
  * rows), so propagation walks typed arrays only.
  */
 
+import type { Cnf } from "../harness/model/cnf.js";
+
+/** A formula's clauses as literal codes (2(v−1) for v, 2(v−1)+1 for ¬v), cleaned. */
+export interface CleanClauses {
+  /** Non-empty clauses without repeated literals, tautologies dropped, in input order. */
+  readonly clauses: number[][];
+  /** Number of empty clauses (violated by every assignment). */
+  readonly empty: number;
+}
+
+/**
+ * Merges repeated literals, drops tautologies and counts empty clauses (set-up only).
+ * @throws RangeError naming the clause when a literal is out of range.
+ */
+export function cleanClauses(cnf: Cnf): CleanClauses {
+  const n = cnf.variables;
+  const clauses: number[][] = [];
+  let empty = 0;
+  const seen = new Int32Array(2 * n + 2).fill(-1);
+  for (let c = 0; c + 1 < cnf.offsets.length; c++) {
+    const out: number[] = [];
+    let tautology = false;
+    for (let i = cnf.offsets[c]; i < cnf.offsets[c + 1]; i++) {
+      const d = cnf.literals[i];
+      const v = Math.abs(d);
+      if (!Number.isInteger(d) || d === 0 || v > n) throw new RangeError(`clause ${c + 1}: literal ${d} is out of range for ${n} variables`);
+      const code = 2 * (v - 1) + (d < 0 ? 1 : 0);
+      if (seen[code ^ 1] === c) tautology = true;
+      if (seen[code] === c) continue;
+      seen[code] = c;
+      out.push(code);
+    }
+    if (tautology) continue;
+    if (out.length === 0) empty++;
+    else clauses.push(out);
+  }
+  return { clauses, empty };
+}
+
 /** Clauses as compressed rows plus literal-occurrence lists. */
 export interface ClauseIndex {
   /** Literal codes of all clauses, clause after clause. */

@@ -20,7 +20,7 @@
  * 5. Counts: doubles while every intermediate count stays below 2^53 (exact); if one does not, the count is
  *    redone in BigInt arithmetic.
  */
-import { indexClauses } from "./clause-index.js";
+import { cleanClauses, indexClauses } from "./clause-index.js";
 import type { Cnf } from "../harness/model/cnf.js";
 import { stopRequested, type StopFlag } from "./types.js";
 
@@ -278,25 +278,12 @@ class CountKernel {
     const n = cnf.variables;
     this.n = n;
     // 1. Clean the clauses: merge repeated literals, drop tautologies, keep units aside.
+    const clean = cleanClauses(cnf);
+    if (clean.empty > 0) this.emptyClause = true;
     const kept: number[][] = [];
-    const seen = new Int32Array(2 * n + 2).fill(-1);
-    for (let c = 0; c + 1 < cnf.offsets.length; c++) {
-      const out: number[] = [];
-      let tautology = false;
-      for (let i = cnf.offsets[c]; i < cnf.offsets[c + 1]; i++) {
-        const d = cnf.literals[i];
-        const v = Math.abs(d);
-        if (!Number.isInteger(d) || d === 0 || v > n) throw new RangeError(`clause ${c + 1}: literal ${d} is out of range for ${n} variables`);
-        const code = 2 * (v - 1) + (d < 0 ? 1 : 0);
-        if (seen[code ^ 1] === c) tautology = true;
-        if (seen[code] === c) continue;
-        seen[code] = c;
-        out.push(code);
-      }
-      if (tautology) continue;
-      if (out.length === 0) this.emptyClause = true;
-      else if (out.length === 1) this.units.push(out[0]);
-      else kept.push(out);
+    for (const c of clean.clauses) {
+      if (c.length === 1) this.units.push(c[0]);
+      else kept.push(c);
     }
     const m = kept.length;
     this.m = m;

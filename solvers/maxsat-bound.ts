@@ -16,7 +16,7 @@
  *    gives the optimum (earlier passes proved that fewer violations are impossible) and its degeneracy.
  * Pure: no clock, console or file; polls the stop flag every few hundred nodes and inside the counter.
  */
-import { indexClauses } from "./clause-index.js";
+import { cleanClauses, indexClauses } from "./clause-index.js";
 import type { Cnf } from "../harness/model/cnf.js";
 import { countModels } from "./count-cnf.js";
 import { stopRequested, type StopFlag } from "./types.js";
@@ -107,25 +107,9 @@ class MaxsatKernel {
   constructor(cnf: Cnf, private readonly stop: StopFlag) {
     const n = cnf.variables;
     this.n = n;
-    const kept: number[][] = [];
-    const seen = new Int32Array(2 * n + 2).fill(-1);
-    for (let c = 0; c + 1 < cnf.offsets.length; c++) {
-      const out: number[] = [];
-      let tautology = false;
-      for (let i = cnf.offsets[c]; i < cnf.offsets[c + 1]; i++) {
-        const d = cnf.literals[i];
-        const v = Math.abs(d);
-        if (!Number.isInteger(d) || d === 0 || v > n) throw new RangeError(`clause ${c + 1}: literal ${d} is out of range for ${n} variables`);
-        const code = 2 * (v - 1) + (d < 0 ? 1 : 0);
-        if (seen[code ^ 1] === c) tautology = true;
-        if (seen[code] === c) continue;
-        seen[code] = c;
-        out.push(code);
-      }
-      if (tautology) continue;
-      if (out.length === 0) this.alwaysViolated++;
-      else kept.push(out);
-    }
+    const clean = cleanClauses(cnf);
+    this.alwaysViolated += clean.empty;
+    const kept = clean.clauses;
     const m = kept.length;
     this.m = m;
     const index = indexClauses(kept, n);

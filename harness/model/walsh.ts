@@ -11,6 +11,31 @@
 const BLOCK_BITS = 12;
 
 /**
+ * Two levels h and 2h at once over a[from .. to) (radix 4): the additions of two radix-2 levels, in their order.
+ * One call per level pair, so the call costs nothing next to the loop.
+ */
+function radix4Level(a: Float64Array, from: number, to: number, h: number): void {
+  const h2 = 2 * h;
+  const h3 = 3 * h;
+  for (let i = from; i < to; i += 4 * h) {
+    for (let j = i; j < i + h; j++) {
+      const a0 = a[j];
+      const a1 = a[j + h];
+      const a2 = a[j + h2];
+      const a3 = a[j + h3];
+      const s01 = a0 + a1;
+      const d01 = a0 - a1;
+      const s23 = a2 + a3;
+      const d23 = a2 - a3;
+      a[j] = s01 + s23;
+      a[j + h] = d01 + d23;
+      a[j + h2] = s01 - s23;
+      a[j + h3] = d01 - d23;
+    }
+  }
+}
+
+/**
  * Transforms the 2^bits entries a[base .. base + 2^bits) in place (the kernel of {@link walshHadamard}; the
  * exhaustive spin kernel calls it on a small buffer with base 0).
  */
@@ -26,26 +51,7 @@ export function walshHadamardRange(a: Float64Array, base: number, bits: number):
     }
     h = 2;
   }
-  for (; h < 1 << bits; h <<= 2) {
-    const h2 = h << 1;
-    const h3 = h2 + h;
-    for (let i = base; i < end; i += h << 2) {
-      for (let j = i; j < i + h; j++) {
-        const a0 = a[j];
-        const a1 = a[j + h];
-        const a2 = a[j + h2];
-        const a3 = a[j + h3];
-        const s01 = a0 + a1;
-        const d01 = a0 - a1;
-        const s23 = a2 + a3;
-        const d23 = a2 - a3;
-        a[j] = s01 + s23;
-        a[j + h] = d01 + d23;
-        a[j + h2] = s01 - s23;
-        a[j + h3] = d01 - d23;
-      }
-    }
-  }
+  for (; h < 1 << bits; h <<= 2) radix4Level(a, base, end, h);
 }
 
 /**
@@ -63,26 +69,7 @@ export function walshHadamard(a: Float64Array, n: number): void {
   for (let base = 0; base < size; base += block) walshHadamardRange(a, base, inner);
   // 2. The wide levels two at a time (radix 4) to halve the passes over memory.
   let h = block;
-  for (; h * 4 <= size; h *= 4) {
-    const h2 = 2 * h;
-    const h3 = 3 * h;
-    for (let i = 0; i < size; i += 4 * h) {
-      for (let j = i; j < i + h; j++) {
-        const a0 = a[j];
-        const a1 = a[j + h];
-        const a2 = a[j + h2];
-        const a3 = a[j + h3];
-        const s01 = a0 + a1;
-        const d01 = a0 - a1;
-        const s23 = a2 + a3;
-        const d23 = a2 - a3;
-        a[j] = s01 + s23;
-        a[j + h] = d01 + d23;
-        a[j + h2] = s01 - s23;
-        a[j + h3] = d01 - d23;
-      }
-    }
-  }
+  for (; h * 4 <= size; h *= 4) radix4Level(a, 0, size, h);
   if (h < size) {
     for (let j = 0; j < h; j++) {
       const x = a[j];
