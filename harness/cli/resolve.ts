@@ -8,6 +8,9 @@ import { InputError } from "../errors.js";
 import { familyNamed, folderFamily } from "../families/registry.js";
 import type { Family, FamilyParams, ParamReader } from "../families/types.js";
 import { COOLING_INTERNAL, COOLING_LAWS, optionSpec, type OptionSpec } from "./options.js";
+import { numberOption } from "./option-values.js";
+
+export { numberOption } from "./option-values.js";
 import { type StudySpec, methodOptionsOf } from "../engine/study.js";
 import { sizeOf } from "../model/problem.js";
 import { PREDICTOR_NAMES, predictorNamed } from "../predict/registry.js";
@@ -56,19 +59,6 @@ export function parseShard(text: string): { k: number; count: number } {
 
 function spec(name: string): OptionSpec {
   return optionSpec(name);
-}
-
-/** Reads a numeric option with its declared range. */
-export function numberOption(argv: Argv, name: string): number | null {
-  const raw = argv[name];
-  const decl = spec(name);
-  if (raw === undefined || raw === null || raw === "") return decl.default === undefined ? null : Number(decl.default);
-  const value = typeof raw === "number" ? raw : Number(String(raw).trim());
-  if (!Number.isFinite(value)) throw new InputError(`--${name}: '${String(raw)}' is not a number`);
-  if (decl.type === "integer" && !Number.isInteger(value)) throw new InputError(`--${name}: '${String(raw)}' is not a whole number`);
-  if (decl.min !== undefined && value < decl.min) throw new InputError(`--${name}: ${value} is below the minimum ${decl.min}`);
-  if (decl.max !== undefined && value > decl.max) throw new InputError(`--${name}: ${value} is above the maximum ${decl.max}`);
-  return value;
 }
 
 function listOption(argv: Argv, name: string, allowed: ReadonlyArray<string>, fallback?: string): string[] {

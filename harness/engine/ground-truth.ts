@@ -4,7 +4,7 @@
  */
 import type { InstanceContext } from "../families/registry.js";
 import { costTolerance, meanCost, sizeOf, type Problem } from "../model/problem.js";
-import { groundTruthSolver } from "../../solvers/registry.js";
+import { groundTruthSolver } from "../../solvers/exact-registry.js";
 import type { ExactResult } from "../../solvers/types.js";
 import type { WorkerPool } from "./pool.js";
 import type { TruthSliceAnswer } from "./tasks.js";

@@ -2,7 +2,7 @@
 import { availableParallelism } from "node:os";
 import { resolve } from "node:path";
 import { ensureWritableFolder } from "../../engine/fs-guard.js";
-import { numberOption } from "../resolve.js";
+import { numberOption } from "../option-values.js";
 
 export type Args = Readonly<Record<string, unknown>>;
 

@@ -7,8 +7,7 @@ import { parseDimacs } from "../../formats/dimacs.js";
 import { parseCouplingList } from "../../formats/coupling-list.js";
 import type { Problem } from "../../model/problem.js";
 import { costTolerance, sizeOf } from "../../model/problem.js";
-import { WorkerPool } from "../../engine/pool.js";
-import { groundTruthSolver } from "../../../solvers/registry.js";
+import { groundTruthSolver } from "../../../solvers/exact-registry.js";
 import { type Args } from "./shared.js";
 import { workersOf } from "./shared.js";
 
@@ -42,6 +41,8 @@ export async function solve(argv: Args): Promise<number> {
   let truth: GroundTruth;
   if (inThread) truth = computeGroundTruthHere(problem, workers, stop);
   else {
+    // The pool (piscina, worker threads) is loaded only for a ground truth split into parts.
+    const { WorkerPool } = await import("../../engine/pool.js");
     const pool = new WorkerPool(workers);
     try {
       truth = await computeGroundTruth(pool, problem, ctx, workers, stop);
