@@ -47,6 +47,12 @@ export interface CountOptions {
    * 20 bytes a component). When full the cache is emptied.
    */
   readonly cacheWords?: number;
+  /**
+   * A second stop condition, polled with the stop flag: for a caller whose limit no other thread can raise in the
+   * flag while this thread counts (the run loop generating --satisfiable / --unique formulas reads its clock;
+   * harness/families/draw-stop.ts). Pure itself as far as the counter is concerned: it only asks.
+   */
+  readonly stopCheck?: () => boolean;
 }
 
 /** Default cache key pool, 32-bit words (32 MiB: common practice for a per-worker cache on a shared machine). */
@@ -77,14 +83,14 @@ const OVERFLOW = 2;
 
 /**
  * Exact number of models of a CNF formula (assignments of all n variables satisfying every clause).
- * Clauses may repeat literals, be tautologies (ignored) or be empty (count 0). Polls `stop` every
- * {@link POLL_NODES} decisions; when stopped returns complete: false.
+ * Clauses may repeat literals, be tautologies (ignored) or be empty (count 0). Polls `stop` (and
+ * `options.stopCheck`) every {@link POLL_NODES} decisions; when stopped returns complete: false.
  * @param cnf - the formula (DIMACS literals, variables 1..n).
  * @param stop - cooperative stop flag, or null.
  * @throws RangeError when a literal is 0 or out of range.
  */
 export function countModels(cnf: Cnf, stop: StopFlag, options: CountOptions = {}): CountResult {
-  const kernel = new CountKernel(cnf, options.cacheWords ?? COUNT_CACHE_WORDS, stop);
+  const kernel = new CountKernel(cnf, options.cacheWords ?? COUNT_CACHE_WORDS, stop, options.stopCheck ?? null);
   return kernel.run();
 }
 
@@ -274,7 +280,7 @@ class CountKernel {
   state = RUNNING;
   big = false;
 
-  constructor(cnf: Cnf, cacheWords: number, private readonly stop: StopFlag) {
+  constructor(cnf: Cnf, cacheWords: number, private readonly stop: StopFlag, private readonly stopCheck: (() => boolean) | null) {
     const n = cnf.variables;
     this.n = n;
     // 1. Clean the clauses: merge repeated literals, drop tautologies, keep units aside.
@@ -495,7 +501,7 @@ class CountKernel {
   }
 
   private poll(): boolean {
-    if (++this.nodes % POLL_NODES === 0 && stopRequested(this.stop)) this.state = STOPPED;
+    if (++this.nodes % POLL_NODES === 0 && (stopRequested(this.stop) || (this.stopCheck !== null && this.stopCheck()))) this.state = STOPPED;
     return this.state !== RUNNING;
   }
 

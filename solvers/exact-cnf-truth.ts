@@ -34,10 +34,15 @@ export function cnfTruthMethod(n: number): "enumeration" | "count" {
 
 /**
  * Exact number of models of a formula (0n when unsatisfiable), by the faster method for its size (the switch
- * rule above). For the --satisfiable/--unique filters: deciding them needs no MaxSAT optimum.
+ * rule above). For the --satisfiable/--unique filters: deciding them needs no MaxSAT optimum. The counter polls
+ * `stopCheck` (a generation limit, see harness/families/draw-stop.ts) and answers null when it stopped; an
+ * enumeration (n ≤ COUNT_SWITCH_VARIABLES, at most 2^30 configurations) always finishes.
  */
-export function cnfModelCount(cnf: Cnf): bigint {
-  if (cnfTruthMethod(cnf.variables) === "count") return countModels(cnf, null).count;
+export function cnfModelCount(cnf: Cnf, stopCheck: (() => boolean) | null = null): bigint | null {
+  if (cnfTruthMethod(cnf.variables) === "count") {
+    const r = countModels(cnf, null, stopCheck === null ? {} : { stopCheck });
+    return r.complete ? r.count : null;
+  }
   const truth = exhaustiveCnfSlice(cnf, 0, 0, null);
   return truth.optimum === 0 ? BigInt(truth.degeneracy) : 0n;
 }

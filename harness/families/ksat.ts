@@ -12,7 +12,7 @@ import type { Cnf } from "../model/cnf.js";
 import { Rng, deriveSeed } from "../random.js";
 import { cnfModelCount } from "../../solvers/exact-cnf-truth.js";
 import { canonicalParams } from "./params.js";
-import { checkDrawStop } from "./draw-stop.js";
+import { checkDrawStop, drawStopCheck, drawStopped } from "./draw-stop.js";
 import type { FamilyParams, GeneratedFamily, GeneratedInstance } from "./types.js";
 
 /**
@@ -136,8 +136,10 @@ export const ksatFamily: GeneratedFamily = {
       rejectedClauses += rc;
       if (exactNeeded) {
         checkDrawStop(draw); // --budget / --cell-limit hold while redrawing
-        // issue 16: decided by enumeration up to the switch size, by the model counter beyond.
-        const models = cnfModelCount(cnf);
+        // issue 16: decided by enumeration up to the switch size, by the model counter beyond, which polls the
+        // same check (a count at n near 200 can outlast any cell limit).
+        const models = cnfModelCount(cnf, drawStopCheck());
+        if (models === null) throw drawStopped(draw);
         const ok = models > 0n && (!p.unique || models === 1n);
         if (!ok) {
           rejectedDraws++;
