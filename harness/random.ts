@@ -7,17 +7,23 @@
  * pseudorandom number generators", ACM TOMS 47 (2021)), chosen because it needs only 32-bit integer
  * arithmetic, which V8 runs without boxing, so the same bytes come out on every machine.
  */
-import { createHash } from "node:crypto";
 
 /** A seed: 32 lowercase hex digits (128 bits), as written to the CSV files. */
 export type Seed = string;
+
+/**
+ * node:crypto, loaded with the first seed derived rather than with this module: `solve` derives none, and loading
+ * it took about 5 ms of the command's start-up (issue 16).
+ */
+let nodeCrypto: typeof import("node:crypto") | null = null;
 
 /**
  * Derives a seed from an ordered list of parts by SHA-256 of their canonical JSON.
  * @param parts - master seed first, then whatever identifies the consumer; numbers and strings only.
  */
 export function deriveSeed(...parts: ReadonlyArray<string | number | boolean>): Seed {
-  return createHash("sha256").update(JSON.stringify(parts)).digest("hex").slice(0, 32);
+  nodeCrypto ??= process.getBuiltinModule("node:crypto");
+  return nodeCrypto.createHash("sha256").update(JSON.stringify(parts)).digest("hex").slice(0, 32);
 }
 
 /** Scratch words for {@link Rng.fromWords}; the constructor copies them. */
