@@ -282,6 +282,9 @@ class CountKernel {
   varTop = 0;
   clTop = 0;
   dTop = 0;
+  /** Mixed ids of variables and clauses, summed into a component's order-independent cache hash. */
+  readonly varHash: Int32Array;
+  readonly clauseHash: Int32Array;
   /** Component stamps (monotone): vmark[v] / cmark[c] = stamp of the component that last took them. */
   readonly vmark: Int32Array;
   readonly cmark: Int32Array;
@@ -328,6 +331,11 @@ class CountKernel {
     this.dstack = new Int32Array(7 * Math.max(16, deepest));
     this.vmark = new Int32Array(n);
     this.cmark = new Int32Array(m);
+    // Mixed once here, looked up in split (was one mix per variable and clause of every component built).
+    this.varHash = new Int32Array(n);
+    for (let v = 0; v < n; v++) this.varHash[v] = mix32(v + 1);
+    this.clauseHash = new Int32Array(m);
+    for (let c = 0; c < m; c++) this.clauseHash[c] = mix32(c ^ 0x5bd1e995);
     this.cache = new ComponentCache(Math.max(64, cacheWords), n * m);
   }
 
@@ -431,7 +439,7 @@ class CountKernel {
    * pushing one descriptor per component with a clause; returns how many variables are in no unsatisfied clause.
    */
   split(vs: number, ve: number): number {
-    const { occ, occStart, nTrue, nFalse, len, lits, start, value, vmark, cmark } = this;
+    const { occ, occStart, nTrue, nFalse, len, lits, start, value, vmark, cmark, varHash, clauseHash } = this;
     this.ensureRoom(ve - vs);
     const vstack = this.vstack;
     const cstack = this.cstack;
@@ -453,7 +461,7 @@ class CountKernel {
       let bestScore = -1;
       for (let head = cvs; head < top; head++) {
         const u = vstack[head];
-        h = (h + mix32(u + 1)) | 0;
+        h = (h + varHash[u]) | 0;
         let score = 0;
         for (let l = 2 * u; l <= 2 * u + 1; l++) {
           for (let j = occStart[l], je = occStart[l + 1]; j < je; j++) {
@@ -463,7 +471,7 @@ class CountKernel {
             if (cmark[c] === stamp) continue;
             cmark[c] = stamp;
             cstack[ctop++] = c;
-            h = (h + mix32(c ^ 0x5bd1e995)) | 0;
+            h = (h + clauseHash[c]) | 0;
             for (let k = start[c], ke = start[c + 1]; k < ke; k++) {
               const w = lits[k] >> 1;
               if (value[w] === UNASSIGNED && vmark[w] !== stamp) {
