@@ -9,8 +9,6 @@ import { familyNamed, folderFamily } from "../families/registry.js";
 import type { Family, FamilyParams, ParamReader } from "../families/types.js";
 import { COOLING_INTERNAL, COOLING_LAWS, optionSpec, type OptionSpec } from "./options.js";
 import { numberOption } from "./option-values.js";
-
-export { numberOption } from "./option-values.js";
 import { type StudySpec, methodOptionsOf } from "../engine/study.js";
 import { sizeOf } from "../model/problem.js";
 import { PREDICTOR_NAMES, predictorNamed } from "../predict/registry.js";
@@ -21,6 +19,10 @@ import type { CellSizeTarget } from "../predict/types.js";
 import { defaultSpectralMemory, formatGiB, parseMemory } from "../predict/numerics/memory.js";
 
 type Argv = Readonly<Record<string, unknown>>;
+
+// Numeric options are read by option-values.ts (so `solve` reads --workers without this module); re-exported for
+// the commands that import it from here.
+export { numberOption } from "./option-values.js";
 
 /** Parses `FROM:TO[:STEP]` (or a single size) into the list of sizes. */
 export function parseSizeRange(text: string, option = "--n"): number[] {
