@@ -66,6 +66,9 @@ export const COUNT_CACHE_WORDS = 1 << 23;
 const BINARY_WEIGHT = 3;
 
 
+/** Largest first size of one recursion stack, in words (4 MiB): the full depth bound is used up to it. */
+const STACK_WORDS = 1 << 20;
+
 /** Largest count held exactly in a double. */
 const EXACT_LIMIT = 2 ** 53;
 
@@ -144,7 +147,7 @@ class ComponentCache {
     this.keyVars = new Int32Array(initial);
     this.keyClauses = new Int32Array(initial);
     this.value = new Float64Array(initial);
-    this.pool = new Int32Array(Math.min(poolWords, powerOfTwoIn(8 * size, 1 << 16, 1 << 22)));
+    this.pool = new Int32Array(Math.min(poolWords, powerOfTwoIn(8 * size, 1 << 16, 1 << 20)));
     // Entries use ≥ 3 pool words each (a component has ≥ 2 variables and ≥ 1 clause).
     this.maxEntries = Math.max(16, Math.floor(poolWords / 3));
   }
@@ -324,11 +327,12 @@ class CountKernel {
     this.trail = new Int32Array(n);
     // Each level of the recursion writes at most the variables of the component it splits (one fewer each level
     // down) and at most all m clauses, at depth ≤ n: the stacks are sized for that from the start, so the
-    // growth paths never run (a grown stack is a new field value, which discards optimised code mid-count).
+    // growth paths never run (a grown stack is a new field value, which discards optimised code mid-count);
+    // beyond STACK_WORDS (huge or dense formulas) they start at the old size and grow when needed.
     const deepest = (n * (n + 1)) / 2 + n;
-    this.vstack = new Int32Array(Math.max(16, deepest));
-    this.cstack = new Int32Array(Math.max(16, (n + 2) * m));
-    this.dstack = new Int32Array(7 * Math.max(16, deepest));
+    this.vstack = new Int32Array(Math.max(16, n * 4, Math.min(deepest, STACK_WORDS)));
+    this.cstack = new Int32Array(Math.max(16, m * 4, Math.min((n + 2) * m, STACK_WORDS)));
+    this.dstack = new Int32Array(7 * Math.max(16, n * 2, Math.min(deepest, STACK_WORDS)));
     this.vmark = new Int32Array(n);
     this.cmark = new Int32Array(m);
     // Mixed once here, looked up in split (was one mix per variable and clause of every component built).
