@@ -10,11 +10,29 @@
  */
 import { MessageChannel, Worker } from "node:worker_threads";
 import { applyOperatorRange, type TransverseFieldOperator } from "./transverse-field.js";
+import { blockedKernel, productPlan } from "./blocked-product.js";
+
+/** How long a new helper thread may take to load before the team gives up. */
+const START_TIMEOUT_MS = 30_000;
+/** Value of a helper's done slot once it has loaded (sequences start at 1, so 0 never means anything else). */
+export const READY = -2;
+/** Value of a helper's done slot after it failed. */
+export const FAILED = -1;
+
+/**
+ * URL of a compiled module beside this one: itself when running compiled, its dist/ copy when this file runs from
+ * source (the test runner), since a worker thread loads JavaScript only.
+ */
+function compiledSibling(name: string): URL {
+  return import.meta.url.endsWith(".ts")
+    ? new URL(`../../../dist/harness/predict/numerics/${name}`, import.meta.url)
+    : new URL(`./${name}`, import.meta.url);
+}
 
 /** Smallest working dimension worth splitting (below it the hand-off costs more than it saves). */
 export const TEAM_MIN_DIM = 2 ** 16;
 
-/** Control block layout (Int32): [0] sequence, [1] done sequence per helper starting at index 8. */
+/** Control block layout (Int32): [0] sequence, [1] stop, [2–7] the command, done sequence per helper from index 8. */
 const SEQ = 0;
 const STOP = 1;
 const DONE = 8;
@@ -24,7 +42,14 @@ const ID_PREV = 3;
 const ID_W = 4;
 const ID_DIAG = 5;
 const ID_TABLE = 6;
+/** Bit 0: mirror; bits 1–2: what to do (PHASE_*). */
 const FLAGS = 7;
+/** The single fused pass over a share of the output range (small spaces). */
+export const PHASE_FUSED = 0;
+/** Pass A (blocked-product.ts) over a share of the blocks. */
+export const PHASE_BLOCKS = 1;
+/** Pass B over a share of the groups, returning its part of wᵀv. */
+export const PHASE_GROUPS = 2;
 /** Float64 slots: sigma, gamma, field, scale, shift, cap, dim, then one partial α per helper from 8. */
 const P_SIGMA = 0;
 const P_GAMMA = 1;
@@ -50,6 +75,11 @@ export function sharedUint16(length: number): Uint16Array {
 
 type Shared = Float64Array | Uint8Array | Uint16Array;
 
+/** Start of thread `index`'s share of `count` items (index = threads gives the end), a multiple of `unit`. */
+export function teamShare(count: number, unit: number, index: number, threads: number): number {
+  return Math.floor((count / unit) * index / threads) * unit;
+}
+
 /** Helper threads applying their share of each product. Call {@link close} when done. */
 export class ProductTeam {
   private readonly workers: Worker[] = [];
@@ -70,12 +100,25 @@ export class ProductTeam {
     for (let h = 1; h < this.threads; h++) {
       const ch = new MessageChannel();
       this.ports.push(ch.port1);
-      const worker = new Worker(new URL("./product-worker.js", import.meta.url), {
+      const worker = new Worker(compiledSibling("product-worker.js"), {
         workerData: { ctrl: this.ctrl.buffer, params: this.params.buffer, port: ch.port2, index: h, threads: this.threads },
         transferList: [ch.port2],
       });
       worker.unref();
       this.workers.push(worker);
+    }
+    // A helper that cannot start (a missing compiled file, a failed import) would otherwise leave apply() waiting
+    // for ever: each helper announces itself once, and the team refuses to go on without all of them.
+    for (let h = 1; h < this.threads; h++) {
+      const deadline = Date.now() + START_TIMEOUT_MS;
+      while (Atomics.load(this.ctrl, DONE + h) !== READY) {
+        const left = deadline - Date.now();
+        if (left <= 0) {
+          this.close();
+          throw new Error(`product team: helper thread ${h} did not start within ${START_TIMEOUT_MS / 1000} s`);
+        }
+        Atomics.wait(this.ctrl, DONE + h, 0, Math.min(left, 100));
+      }
     }
   }
 
@@ -95,7 +138,13 @@ export class ProductTeam {
   /** w = σ·(H v) − γ·vprev over all amplitudes, split between the threads; returns wᵀv. */
   apply(op: TransverseFieldOperator, v: Float64Array, sigma: number, vprev: Float64Array, gamma: number, w: Float64Array): number {
     const dim = op.dim;
-    if (this.threads === 1 || dim < TEAM_MIN_DIM) return applyOperatorRange(op, v, sigma, vprev, gamma, w, 0, dim);
+    const plan = productPlan(op);
+    if (this.threads === 1 || dim < TEAM_MIN_DIM) {
+      if (plan === null) return applyOperatorRange(op, v, sigma, vprev, gamma, w, 0, dim);
+      const kernel = blockedKernel();
+      kernel.passA(op, plan, v, sigma, vprev, gamma, w, 0, plan.blocks);
+      return kernel.passB(op, plan, v, sigma, w, 0, plan.groups);
+    }
     const { ctrl, params } = this;
     const d = op.diagonal;
     ctrl[ID_V] = this.idOf(v);
@@ -111,26 +160,40 @@ export class ProductTeam {
       params[P_SHIFT] = d.shift;
       params[P_CAP] = d.cap;
     }
-    ctrl[FLAGS] = op.mirror ? 1 : 0;
     params[P_SIGMA] = sigma;
     params[P_GAMMA] = gamma;
     params[P_FIELD] = op.field;
     params[P_DIM] = dim;
+    if (plan === null) {
+      return this.round(op, PHASE_FUSED, (from, to) => applyOperatorRange(op, v, sigma, vprev, gamma, w, from, to), dim, 8);
+    }
+    // Pass B reads w across every block, so all of pass A ends before any of it starts.
+    const kernel = blockedKernel();
+    this.round(op, PHASE_BLOCKS, (from, to) => (kernel.passA(op, plan, v, sigma, vprev, gamma, w, from, to), 0), plan.blocks, 1);
+    return this.round(op, PHASE_GROUPS, (from, to) => kernel.passB(op, plan, v, sigma, w, from, to), plan.groups, 1);
+  }
+
+  /**
+   * One command to every thread: the caller does share 0 of `count` items (in units of `unit`) with `own`, the
+   * helpers the others; returns the sum of the parts in thread order.
+   */
+  private round(op: TransverseFieldOperator, phase: number, own: (from: number, to: number) => number, count: number, unit: number): number {
+    const { ctrl, params } = this;
+    ctrl[FLAGS] = (op.mirror ? 1 : 0) | (phase << 1);
     const seq = ++this.seq;
     Atomics.store(ctrl, SEQ, seq);
     Atomics.notify(ctrl, SEQ);
-    const share = dim / this.threads; // dim ≥ 2^16 and threads ≤ 8 keep shares multiples of 8
-    let alpha = applyOperatorRange(op, v, sigma, vprev, gamma, w, 0, share);
+    let total = own(0, teamShare(count, unit, 1, this.threads));
     for (let h = 1; h < this.threads; h++) {
       for (;;) {
         const done = Atomics.load(ctrl, DONE + h);
         if (done === seq) break;
-        if (done < 0) throw new Error("product team: a helper thread failed");
+        if (done === FAILED) throw new Error("product team: a helper thread failed");
         Atomics.wait(ctrl, DONE + h, done, 60_000);
       }
-      alpha += params[P_ALPHA + h];
+      total += params[P_ALPHA + h];
     }
-    return alpha;
+    return total;
   }
 
   /** Stops the helpers. */
