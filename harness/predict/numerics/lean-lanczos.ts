@@ -18,6 +18,7 @@ import { Rng } from "../../random.js";
 import { TridiagonalScratch, tridiagonalEigenvalue, tridiagonalEigenvector } from "../lanczos.js";
 import { applyOperator, type TransverseFieldOperator } from "./transverse-field.js";
 import { type ProductTeam, sharedFloat64 } from "./product-team.js";
+import { combineRange, updateRange } from "./vector-ops.js";
 
 /** Vectors of the working dimension a solve holds at its peak. */
 export const LEAN_VECTORS = 6;
@@ -105,6 +106,7 @@ export function leanLowestEigenpairs(op: TransverseFieldOperator, options: LeanL
     s1: new Float64Array(maxIterations + 2),
     tri: new TridiagonalScratch(maxIterations + 2),
     stepOut: new Float64Array(2),
+    sums: new Float64Array(2),
     maxIterations,
     maxRestarts: options.maxRestarts ?? 12,
     products: 0,
@@ -166,6 +168,8 @@ interface Context {
   readonly s1: Float64Array;
   readonly tri: TridiagonalScratch;
   readonly stepOut: Float64Array;
+  /** ‖w‖² and the locked component from the update (vector-ops.ts). */
+  readonly sums: Float64Array;
   readonly maxIterations: number;
   readonly maxRestarts: number;
   products: number;
@@ -261,24 +265,16 @@ function step(
   const a = sigma * (ctx.team !== null ? ctx.team.apply(ctx.op, u, sigma, uprev, gamma, w) : applyOperator(ctx.op, u, sigma, uprev, gamma, w));
   ctx.products++;
   const as = a * sigma;
-  const dim = w.length;
-  let nn = 0;
-  let c = 0;
-  if (locked === null) {
-    for (let z = 0; z < dim; z++) {
-      const x = w[z] - as * u[z];
-      w[z] = x;
-      nn += x * x;
-    }
-  } else {
-    for (let z = 0; z < dim; z++) {
-      const x = w[z] - as * u[z];
-      w[z] = x;
-      nn += x * x;
-      c += locked[z] * x;
-    }
-    for (let z = 0; z < dim; z++) w[z] -= c * locked[z];
+  const sums = ctx.sums;
+  if (ctx.team !== null) ctx.team.update(w, u, as, locked, sums);
+  else {
+    sums[0] = 0;
+    sums[1] = 0;
+    updateRange(w, u, as, locked, 0, w.length, sums);
   }
+  const nn = sums[0];
+  const c = sums[1];
+  if (locked !== null) combine(ctx, locked, w, -c, null, 0);
   ctx.stepOut[0] = a;
   ctx.stepOut[1] = Math.sqrt(Math.max(0, nn - c * c));
 }
@@ -381,18 +377,19 @@ function ritzVectors(
   for (let j = count - 1; j < k - 1; j++) {
     const w = pool.take();
     step(ctx, j, u, uprev, w, locked);
-    const c0 = s0[j + 1] * sigma[j + 1];
-    for (let z = 0; z < dim; z++) y0[z] += c0 * w[z];
-    if (y1 !== null) {
-      const c1 = s1[j + 1] * sigma[j + 1];
-      for (let z = 0; z < dim; z++) y1[z] += c1 * w[z];
-    }
+    combine(ctx, w, y0, s0[j + 1] * sigma[j + 1], y1, y1 !== null ? s1[j + 1] * sigma[j + 1] : 0);
     if (j - 1 >= count) pool.give(uprev);
     uprev = u;
     u = w;
   }
   if (k - 1 >= count) pool.give(u);
   if (k - 2 >= count) pool.give(uprev);
+}
+
+/** y0 += c0·x (and y1 += c1·x), on the team's threads when there is one. */
+function combine(ctx: Context, x: Float64Array, y0: Float64Array, c0: number, y1: Float64Array | null, c1: number): void {
+  if (ctx.team !== null) ctx.team.combine(x, y0, c0, y1, c1);
+  else combineRange(x, y0, c0, y1, c1, 0, x.length);
 }
 
 function dot(a: Float64Array, b: Float64Array): number {

@@ -11,6 +11,7 @@
 import { MessageChannel, Worker } from "node:worker_threads";
 import { applyOperatorRange, type TransverseFieldOperator } from "./transverse-field.js";
 import { blockedKernel, productPlan } from "./blocked-product.js";
+import { combineRange, updateRange } from "./vector-ops.js";
 
 /** How long a new helper thread may take to load before the team gives up. */
 const START_TIMEOUT_MS = 30_000;
@@ -42,7 +43,7 @@ const ID_PREV = 3;
 const ID_W = 4;
 const ID_DIAG = 5;
 const ID_TABLE = 6;
-/** Bit 0: mirror; bits 1–2: what to do (PHASE_*). */
+/** Bit 0: mirror; bits 1–3: what to do (PHASE_*). */
 const FLAGS = 7;
 /** The single fused pass over a share of the output range (small spaces). */
 export const PHASE_FUSED = 0;
@@ -50,7 +51,14 @@ export const PHASE_FUSED = 0;
 export const PHASE_BLOCKS = 1;
 /** Pass B over a share of the groups, returning its part of wᵀv. */
 export const PHASE_GROUPS = 2;
-/** Float64 slots: sigma, gamma, field, scale, shift, cap, dim, then one partial α per helper from 8. */
+/** The recurrence's update w −= a·u with ‖w‖² (and the locked vector's component) over a share (vector-ops.ts). */
+export const PHASE_UPDATE = 3;
+/** y0 += c0·x (and y1 += c1·x) over a share. */
+export const PHASE_COMBINE = 4;
+/**
+ * Float64 slots: sigma, gamma, field, scale, shift, cap, dim (the vector phases use sigma and gamma for their
+ * coefficients), then one partial result per helper from 8, and a second one per helper after those.
+ */
 const P_SIGMA = 0;
 const P_GAMMA = 1;
 const P_FIELD = 2;
@@ -95,7 +103,7 @@ export class ProductTeam {
   constructor(threads: number) {
     this.threads = Math.max(1, Math.floor(threads));
     this.ctrl = new Int32Array(new SharedArrayBuffer(4 * (DONE + this.threads)));
-    this.params = new Float64Array(new SharedArrayBuffer(8 * (P_ALPHA + this.threads)));
+    this.params = new Float64Array(new SharedArrayBuffer(8 * (P_ALPHA + 2 * this.threads)));
     // Each helper has its own channel, so each receives every registration.
     for (let h = 1; h < this.threads; h++) {
       const ch = new MessageChannel();
@@ -165,25 +173,70 @@ export class ProductTeam {
     params[P_FIELD] = op.field;
     params[P_DIM] = dim;
     if (plan === null) {
-      return this.round(op, PHASE_FUSED, (from, to) => applyOperatorRange(op, v, sigma, vprev, gamma, w, from, to), dim, 8);
+      return this.round(op.mirror, PHASE_FUSED, (from, to) => applyOperatorRange(op, v, sigma, vprev, gamma, w, from, to), dim, 8);
     }
     // Pass B reads w across every block, so all of pass A ends before any of it starts.
     const kernel = blockedKernel();
-    this.round(op, PHASE_BLOCKS, (from, to) => (kernel.passA(op, plan, v, sigma, vprev, gamma, w, from, to), 0), plan.blocks, 1);
-    return this.round(op, PHASE_GROUPS, (from, to) => kernel.passB(op, plan, v, sigma, w, from, to), plan.groups, 1);
+    this.round(op.mirror, PHASE_BLOCKS, (from, to) => (kernel.passA(op, plan, v, sigma, vprev, gamma, w, from, to), 0), plan.blocks, 1);
+    return this.round(op.mirror, PHASE_GROUPS, (from, to) => kernel.passB(op, plan, v, sigma, w, from, to), plan.groups, 1);
   }
 
   /**
-   * One command to every thread: the caller does share 0 of `count` items (in units of `unit`) with `own`, the
-   * helpers the others; returns the sum of the parts in thread order.
+   * w = w − a·u over all amplitudes; out[0] = ‖w‖² and out[1] = lockedᵀw after the update (0 without `locked`).
+   * Parts are added in thread order, so the result does not depend on timing.
    */
-  private round(op: TransverseFieldOperator, phase: number, own: (from: number, to: number) => number, count: number, unit: number): number {
+  update(w: Float64Array, u: Float64Array, a: number, locked: Float64Array | null, out: Float64Array): void {
+    out[0] = 0;
+    out[1] = 0;
+    const dim = w.length;
+    if (this.threads === 1 || dim < TEAM_MIN_DIM) {
+      updateRange(w, u, a, locked, 0, dim, out);
+      return;
+    }
+    this.ctrl[ID_V] = this.idOf(w);
+    this.ctrl[ID_PREV] = this.idOf(u);
+    this.ctrl[ID_W] = locked === null ? -1 : this.idOf(locked);
+    this.params[P_SIGMA] = a;
+    this.params[P_DIM] = dim;
+    out[0] = this.round(false, PHASE_UPDATE, (from, to) => (updateRange(w, u, a, locked, from, to, out), out[0]), dim, 8);
+    out[1] += this.second;
+  }
+
+  /** y0 += c0·x and, with y1, y1 += c1·x over all amplitudes. */
+  combine(x: Float64Array, y0: Float64Array, c0: number, y1: Float64Array | null, c1: number): void {
+    const dim = x.length;
+    if (this.threads === 1 || dim < TEAM_MIN_DIM) {
+      combineRange(x, y0, c0, y1, c1, 0, dim);
+      return;
+    }
+    this.ctrl[ID_V] = this.idOf(x);
+    this.ctrl[ID_PREV] = this.idOf(y0);
+    this.ctrl[ID_W] = y1 === null ? -1 : this.idOf(y1);
+    this.params[P_SIGMA] = c0;
+    this.params[P_GAMMA] = c1;
+    this.params[P_DIM] = dim;
+    this.round(false, PHASE_COMBINE, (from, to) => (combineRange(x, y0, c0, y1, c1, from, to), 0), dim, 8);
+  }
+
+  /** Sum of the helpers' second partial results in the last round, plus the caller's (see {@link update}). */
+  private second = 0;
+
+  /**
+   * One command to every thread: the caller does share 0 of `count` items (in units of `unit`) with `own`, the
+   * helpers the others; returns the sum of the parts in thread order. For the update phase, the caller's second
+   * part is in the `out` array it filled and the helpers' are added to {@link second}.
+   */
+  private round(mirror: boolean, phase: number, own: (from: number, to: number) => number, count: number, unit: number): number {
     const { ctrl, params } = this;
-    ctrl[FLAGS] = (op.mirror ? 1 : 0) | (phase << 1);
+    ctrl[FLAGS] = (mirror ? 1 : 0) | (phase << 1);
     const seq = ++this.seq;
     Atomics.store(ctrl, SEQ, seq);
     Atomics.notify(ctrl, SEQ);
-    let total = own(0, teamShare(count, unit, 1, this.threads));
+    this.second = 0;
+    let total = 0;
+    const mine = own(0, teamShare(count, unit, 1, this.threads));
+    total += mine;
+    let second = 0;
     for (let h = 1; h < this.threads; h++) {
       for (;;) {
         const done = Atomics.load(ctrl, DONE + h);
@@ -192,7 +245,9 @@ export class ProductTeam {
         Atomics.wait(ctrl, DONE + h, done, 60_000);
       }
       total += params[P_ALPHA + h];
+      second += params[P_ALPHA + this.threads + h];
     }
+    this.second = second;
     return total;
   }
 

@@ -5,7 +5,8 @@
 import { type MessagePort, receiveMessageOnPort, workerData } from "node:worker_threads";
 import { applyOperatorRange, type TransverseFieldOperator } from "./transverse-field.js";
 import { blockedKernel, productPlan } from "./blocked-product.js";
-import { FAILED, PHASE_BLOCKS, PHASE_FUSED, READY, teamShare } from "./product-team.js";
+import { FAILED, PHASE_BLOCKS, PHASE_COMBINE, PHASE_FUSED, PHASE_UPDATE, READY, teamShare } from "./product-team.js";
+import { combineRange, updateRange } from "./vector-ops.js";
 
 const data = workerData as { ctrl: SharedArrayBuffer; params: SharedArrayBuffer; port: MessagePort; index: number; threads: number };
 const ctrl = new Int32Array(data.ctrl);
@@ -23,6 +24,23 @@ function receive(): void {
   }
 }
 
+const partial = new Float64Array(2);
+
+/** A vector pass of the recurrence (vector-ops.ts) over this helper's share; partial results into params. */
+function vectorPhase(phase: number, dim: number): void {
+  const from = teamShare(dim, 8, data.index, data.threads);
+  const to = teamShare(dim, 8, data.index + 1, data.threads);
+  const a = arrays[ctrl[2]] as Float64Array;
+  const b = arrays[ctrl[3]] as Float64Array;
+  const c = ctrl[4] >= 0 ? (arrays[ctrl[4]] as Float64Array) : null;
+  partial[0] = 0;
+  partial[1] = 0;
+  if (phase === PHASE_UPDATE) updateRange(a, b, params[0], c, from, to, partial);
+  else combineRange(a, b, params[0], c, params[1], from, to);
+  params[P_ALPHA + data.index] = partial[0];
+  params[P_ALPHA + data.threads + data.index] = partial[1];
+}
+
 let seen = 0;
 Atomics.store(ctrl, DONE + data.index, READY);
 Atomics.notify(ctrl, DONE + data.index);
@@ -35,9 +53,15 @@ try {
     if (Atomics.load(ctrl, 1) === 1) break;
     receive();
     const dim = params[6];
-    const tableId = ctrl[6];
     const flags = ctrl[7];
     const phase = flags >> 1;
+    if (phase === PHASE_UPDATE || phase === PHASE_COMBINE) {
+      vectorPhase(phase, dim);
+      Atomics.store(ctrl, DONE + data.index, seq);
+      Atomics.notify(ctrl, DONE + data.index);
+      continue;
+    }
+    const tableId = ctrl[6];
     const op: TransverseFieldOperator = {
       dim,
       bits: Math.round(Math.log2(dim)),
