@@ -14,6 +14,7 @@ import { applyOperator, applyOperatorRange, diagonalAt, type TransverseFieldOper
 import { applyBlocked, blockedPlan } from "../harness/predict/numerics/blocked-product.js";
 import { spectralPredict } from "../harness/predict/spectral.js";
 import { spectralLeanScan } from "../harness/predict/spectral-lean.js";
+import { basisVectorsFor, leanLowestEigenpairs } from "../harness/predict/numerics/lean-lanczos.js";
 import { Rng } from "../harness/random.js";
 import { random3Sat, sk } from "./helpers/instances.js";
 
@@ -107,6 +108,31 @@ describe("lean spectral path against the reference path (n ≤ 22)", () => {
       expect(lean.mean_cost).toBeCloseTo(ref.mean_cost, 12);
     });
   }
+});
+
+describe("stored Lanczos vectors (memory beyond the lean minimum) change the work, not the result", () => {
+  it("SK n = 16 (sector) and 3-SAT n = 14: e0, e1 and the ground state agree with the lean minimum to 1e-12", () => {
+    for (const problem of [sk(16, "basis-a"), random3Sat(14, "basis-b")]) {
+      const cost = buildSectorCost(problem);
+      const op: TransverseFieldOperator = { dim: cost.dim, bits: cost.bits, mirror: cost.symmetric, field: 1 / cost.n, diagonal: diagonalOf(cost) };
+      const scale = Math.abs(cost.min - cost.mean);
+      setAffine(op.diagonal, 0.7 / (scale * 0.5), (0.7 * (0.5 - cost.mean / scale)) / 0.5, 0);
+      const solve = (basisVectors: number) => leanLowestEigenpairs(op, { tolerance: 1e-10, maxIterations: 5000, seed: "basis", basisVectors });
+      const lean = solve(1);
+      for (const kept of [7, basisVectorsFor(cost.dim, 1e9)]) {
+        const r = solve(kept);
+        expect(Math.abs(r.e0 - lean.e0)).toBeLessThan(1e-12);
+        expect(Math.abs(r.e1 - lean.e1)).toBeLessThan(1e-12);
+        let diff = 0;
+        for (let z = 0; z < cost.dim; z++) diff = Math.max(diff, Math.abs(r.psi0[z] - lean.psi0[z]));
+        expect(diff).toBeLessThan(1e-9);
+        // Every stored vector saves one product of the second pass.
+        expect(r.iterations).toBeLessThan(lean.iterations);
+      }
+      expect(basisVectorsFor(cost.dim, 0)).toBe(1);
+      expect(basisVectorsFor(cost.dim, 8 * cost.dim * 3.5)).toBe(4);
+    }
+  });
 });
 
 describe("spectral memory", () => {

@@ -22,7 +22,7 @@ import { skFamily } from "../../harness/families/sk.js";
 import type { Problem } from "../../harness/model/problem.js";
 import { buildSectorCost, diagonalOf, setAffine } from "../../harness/predict/numerics/sector-cost.js";
 import { applyOperator, type TransverseFieldOperator } from "../../harness/predict/numerics/transverse-field.js";
-import { spectralMemoryNeeded } from "../../harness/predict/numerics/memory.js";
+import { basisMemoryFor, spectralMemoryNeeded } from "../../harness/predict/numerics/memory.js";
 import { DEFAULT_SPECTRAL_OPTIONS } from "../../harness/predict/spectral.js";
 import { spectralLeanScan } from "../../harness/predict/spectral-lean.js";
 import { ProductTeam, sharedFloat64 } from "../../harness/predict/numerics/product-team.js";
@@ -100,7 +100,9 @@ function pointRow(label: string, problem: Problem, target: number): void {
   const t = performance.now();
   const cost = buildSectorCost(problem, THREADS > 1);
   const built = (performance.now() - t) / 1000;
-  const [row] = spectralLeanScan(problem, cost, cost.min, [0.7], { ...DEFAULT_SPECTRAL_OPTIONS, eta: 0.5 }, THREADS);
+  // As the spectral command does: the allowance (75% of memory) beyond the lean minimum holds Lanczos vectors.
+  const basisMemory = basisMemoryFor(problem, 0.75 * os.totalmem(), 1);
+  const [row] = spectralLeanScan(problem, cost, cost.min, [0.7], { ...DEFAULT_SPECTRAL_OPTIONS, eta: 0.5, basisMemory }, THREADS);
   const wall = (performance.now() - t) / 1000;
   console.log(
     `point ${label} (b, η) = (0.7, 0.5), ${row.sector}, ${THREADS} threads: ${wall.toFixed(1)} s (cost ${built.toFixed(1)} s), ${row.iterations} products, ` +

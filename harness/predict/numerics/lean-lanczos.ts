@@ -37,6 +37,21 @@ export interface LeanLanczosOptions {
   readonly pool?: LeanVectorPool;
   /** Threads for the products (product-team.ts); the pool and the operator's arrays must then be shared. */
   readonly team?: ProductTeam;
+  /**
+   * Lanczos vectors a cycle may keep for its Ritz vectors (default 1: the start vector only, the lean minimum).
+   * Each kept vector saves the second pass one product and its vector passes; callers size this from the memory
+   * left beyond the {@link LEAN_VECTORS} working vectors (see {@link basisVectorsFor}).
+   */
+  readonly basisVectors?: number;
+}
+
+/**
+ * Lanczos vectors worth keeping in `spareBytes` of memory for a working space of `dim` amplitudes: 1 (the start
+ * vector, always held) plus one per 8·dim bytes, capped at `cap` (a cycle never needs more than its Krylov size).
+ */
+export function basisVectorsFor(dim: number, spareBytes: number, cap = 1000): number {
+  const extra = Math.floor(Math.max(0, spareBytes) / (8 * dim));
+  return Math.max(1, Math.min(cap, 1 + extra));
 }
 
 /**
@@ -109,6 +124,7 @@ export function leanLowestEigenpairs(op: TransverseFieldOperator, options: LeanL
     sums: new Float64Array(2),
     maxIterations,
     maxRestarts: options.maxRestarts ?? 12,
+    capacity: Math.max(1, Math.floor(options.basisVectors ?? 1)),
     products: 0,
     team: options.team ?? null,
   };
@@ -151,9 +167,6 @@ export function leanLowestEigenpairs(op: TransverseFieldOperator, options: LeanL
   };
 }
 
-/** Lanczos vectors stored per run: the start vector only; the second pass regenerates the rest. */
-const CAPACITY = 1;
-
 /** Everything one solve shares; coefficient arrays are indexed by Lanczos step. */
 interface Context {
   readonly op: TransverseFieldOperator;
@@ -172,6 +185,8 @@ interface Context {
   readonly sums: Float64Array;
   readonly maxIterations: number;
   readonly maxRestarts: number;
+  /** Lanczos vectors a cycle stores (the start vector counts); the second pass regenerates the rest. */
+  readonly capacity: number;
   products: number;
 }
 
@@ -326,15 +341,15 @@ function firstPass(
       break;
     }
     sigma[j + 1] = 1 / b;
-    if (j + 1 < CAPACITY) stored.push(w);
+    if (j + 1 < ctx.capacity) stored.push(w);
     // u_{j−1} is no longer needed unless it is stored.
-    if (j >= 1 && j - 1 >= CAPACITY) pool.give(uprev);
+    if (j >= 1 && j - 1 >= ctx.capacity) pool.give(uprev);
     uprev = u;
     u = w;
   }
   // Release the unstored tail vectors still held.
-  if (k - 1 >= CAPACITY) pool.give(u);
-  if (k - 2 >= CAPACITY) pool.give(uprev);
+  if (k - 1 >= ctx.capacity) pool.give(u);
+  if (k - 2 >= ctx.capacity) pool.give(uprev);
   return { k, settled: settled > 0 ? settled : k, stored };
 }
 
