@@ -5,7 +5,8 @@
 import { InputError } from "../errors.js";
 import type { Problem } from "../model/problem.js";
 import { DEFAULT_ADIABATIC_OPTIONS, adiabaticGap } from "./adiabatic.js";
-import { allowedMemory, cellMemory, defaultSpectralMemory, memoryRefusal } from "./numerics/memory.js";
+import { availableParallelism } from "node:os";
+import { allowedMemory, basisMemoryFor, cellMemory, defaultSpectralMemory, memoryRefusal } from "./numerics/memory.js";
 import { SECTOR_COST_MAX_N, buildSectorCost } from "./numerics/sector-cost.js";
 import type { Predictor } from "./types.js";
 
@@ -15,6 +16,7 @@ import type { Predictor } from "./types.js";
  * @param grid - grid points on [0, 1] (default 21).
  * @param memory - allowance in bytes (default: 75% of physical memory).
  * @param threads - threads for the products of one large solve (default 1: study cells already fill the cores).
+ * @param sharers - solves that may run at once under the same allowance (default 1; see computeSpectral).
  * @throws InputError when the instance needs more memory than allowed.
  */
 export function computeAdiabatic(
@@ -23,11 +25,12 @@ export function computeAdiabatic(
   grid: number = DEFAULT_ADIABATIC_OPTIONS.grid,
   memory: number = defaultSpectralMemory(),
   threads = 1,
+  sharers = 1,
 ): Record<string, number | string | boolean | null> {
   const refusal = memoryRefusal("adiabatic", problem, memory);
   if (refusal !== null) throw new InputError(refusal);
   const cost = buildSectorCost(problem, threads > 1);
-  const result = adiabaticGap(problem, cost, optimum ?? cost.min, { ...DEFAULT_ADIABATIC_OPTIONS, grid }, threads);
+  const result = adiabaticGap(problem, cost, optimum ?? cost.min, { ...DEFAULT_ADIABATIC_OPTIONS, grid, basisMemory: basisMemoryFor(problem, memory, sharers) }, threads);
   return { ...result };
 }
 
@@ -51,7 +54,8 @@ export const adiabaticPredictor: Predictor = {
     params: (options) => [Number(options["adiabatic-grid"] ?? DEFAULT_ADIABATIC_OPTIONS.grid)],
     maxSize: () => SECTOR_COST_MAX_N,
     memory: cellMemory,
-    // Study cells use one thread each: the pool's workers already fill the cores.
-    run: (problem, input) => computeAdiabatic(problem, input.optimum, input.param, allowedMemory(input.options)),
+    // Study cells use one thread each (the pool's workers already fill the cores) and share the allowance with
+    // as many other cells as there are cores.
+    run: (problem, input) => computeAdiabatic(problem, input.optimum, input.param, allowedMemory(input.options), 1, availableParallelism()),
   },
 };

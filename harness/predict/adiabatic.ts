@@ -25,7 +25,7 @@
  * oracle queries, so the study fits it as its own measure and the comparison rates it against no classical measure.
  */
 import { costTolerance, type Problem } from "../model/problem.js";
-import { LeanVectorPool, leanLowestEigenpairs } from "./numerics/lean-lanczos.js";
+import { LeanVectorPool, basisVectorsFor, leanLowestEigenpairs } from "./numerics/lean-lanczos.js";
 import { type SectorCost, countOptima, diagonalOf, isShared, setAffine } from "./numerics/sector-cost.js";
 import { ProductTeam, TEAM_MIN_DIM } from "./numerics/product-team.js";
 import type { TransverseFieldOperator } from "./numerics/transverse-field.js";
@@ -44,6 +44,8 @@ export interface AdiabaticOptions {
   readonly sTolerance: number;
   /** |C − C*| within which a configuration counts as optimal (default costTolerance(problem)). */
   readonly costTolerance?: number;
+  /** Bytes beyond the lean working set for stored Lanczos vectors (as SpectralOptions.basisMemory; default 0). */
+  readonly basisMemory?: number;
 }
 
 /** Defaults of {@link AdiabaticOptions}. */
@@ -147,6 +149,7 @@ export class AdiabaticPath {
       seed: this.options.seed,
       pool: this.pool,
       team: this.team,
+      basisVectors: basisVectorsFor(this.cost.dim, this.options.basisMemory ?? 0, this.options.maxIterations),
     });
     this.pool.give(eig.psi0);
     this.solves++;

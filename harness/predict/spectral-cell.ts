@@ -7,7 +7,8 @@ import type { Problem } from "../model/problem.js";
 import { InputError } from "../errors.js";
 import { DEFAULT_SPECTRAL_OPTIONS } from "./spectral.js";
 import { spectralLeanScan } from "./spectral-lean.js";
-import { allowedMemory, cellMemory, defaultSpectralMemory, memoryRefusal } from "./numerics/memory.js";
+import { availableParallelism } from "node:os";
+import { allowedMemory, basisMemoryFor, cellMemory, defaultSpectralMemory, memoryRefusal } from "./numerics/memory.js";
 import { SECTOR_COST_MAX_N, buildSectorCost } from "./numerics/sector-cost.js";
 import type { Predictor } from "./types.js";
 
@@ -16,6 +17,8 @@ import type { Predictor } from "./types.js";
  * @param optimum - exact optimum from ground truth, or null to take it from the cost.
  * @param memory - allowance in bytes (default: 75% of physical memory).
  * @param threads - threads for the products (default 1: study cells already fill the cores).
+ * @param sharers - solves that may run at once under the same allowance (default 1); the allowance's share beyond
+ *   the lean minimum holds stored Lanczos vectors.
  * @throws InputError when the instance needs more memory than allowed (the message names both).
  */
 export function computeSpectral(
@@ -25,11 +28,12 @@ export function computeSpectral(
   eta: number,
   memory: number = defaultSpectralMemory(),
   threads = 1,
+  sharers = 1,
 ): Record<string, number | string | boolean | null> {
   const refusal = memoryRefusal("spectral", problem, memory);
   if (refusal !== null) throw new InputError(refusal);
   const cost = buildSectorCost(problem, threads > 1);
-  const [row] = spectralLeanScan(problem, cost, optimum ?? cost.min, [b], { ...DEFAULT_SPECTRAL_OPTIONS, eta }, threads);
+  const [row] = spectralLeanScan(problem, cost, optimum ?? cost.min, [b], { ...DEFAULT_SPECTRAL_OPTIONS, eta, basisMemory: basisMemoryFor(problem, memory, sharers) }, threads);
   return { ...row } as Record<string, number | string | boolean | null>;
 }
 
@@ -48,8 +52,9 @@ export const spectralPredictor: Predictor = {
     params: (options) => [...(options["spectral-b"] as ReadonlyArray<number>)],
     maxSize: () => SECTOR_COST_MAX_N,
     memory: cellMemory,
-    // Study cells use one thread each: the pool's workers already fill the cores.
+    // Study cells use one thread each (the pool's workers already fill the cores) and share the allowance with
+    // as many other cells as there are cores.
     run: (problem, input) =>
-      computeSpectral(problem, input.optimum, input.param, Number(input.options["spectral-eta"]), allowedMemory(input.options)),
+      computeSpectral(problem, input.optimum, input.param, Number(input.options["spectral-eta"]), allowedMemory(input.options), 1, availableParallelism()),
   },
 };

@@ -6,7 +6,7 @@
  * the eigen-solver's tolerance (test/spectral-lean.test.ts).
  */
 import { costTolerance, type Problem } from "../model/problem.js";
-import { LeanVectorPool, leanLowestEigenpairs } from "./numerics/lean-lanczos.js";
+import { LeanVectorPool, basisVectorsFor, leanLowestEigenpairs } from "./numerics/lean-lanczos.js";
 import { type SectorCost, countOptima, diagonalOf, isShared, optimalWeight, setAffine } from "./numerics/sector-cost.js";
 import { ProductTeam, TEAM_MIN_DIM } from "./numerics/product-team.js";
 import type { TransverseFieldOperator } from "./numerics/transverse-field.js";
@@ -81,6 +81,7 @@ function scan(
       seed: options.seed ?? "spectral",
       pool,
       team,
+      basisVectors: basisVectorsFor(cost.dim, options.basisMemory ?? 0, options.maxIterations ?? DEFAULT_SPECTRAL_OPTIONS.maxIterations),
     });
     const psi = eig.psi0;
     let sum = 0;

@@ -44,6 +44,11 @@ export interface SpectralOptions {
    * (decided from the cost vector, so the same for every b of a scan).
    */
   readonly sector?: LanczosSector;
+  /**
+   * Bytes beyond the memory-lean working set that the lean path may fill with Lanczos vectors, saving the second
+   * pass's products for those steps (default 0: the lean minimum; numerics/lean-lanczos.ts basisVectors).
+   */
+  readonly basisMemory?: number;
 }
 
 /** Defaults of {@link SpectralOptions} (the command line's --b, --eta, and the tolerance). */

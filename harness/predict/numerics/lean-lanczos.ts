@@ -18,6 +18,7 @@ import { Rng } from "../../random.js";
 import { TridiagonalScratch, tridiagonalEigenvalue, tridiagonalEigenvector } from "../lanczos.js";
 import { applyOperator, type TransverseFieldOperator } from "./transverse-field.js";
 import { type ProductTeam, sharedFloat64 } from "./product-team.js";
+import { combineRange, updateRange } from "./vector-ops.js";
 
 /** Vectors of the working dimension a solve holds at its peak. */
 export const LEAN_VECTORS = 6;
@@ -36,6 +37,21 @@ export interface LeanLanczosOptions {
   readonly pool?: LeanVectorPool;
   /** Threads for the products (product-team.ts); the pool and the operator's arrays must then be shared. */
   readonly team?: ProductTeam;
+  /**
+   * Lanczos vectors a cycle may keep for its Ritz vectors (default 1: the start vector only, the lean minimum).
+   * Each kept vector saves the second pass one product and its vector passes; callers size this from the memory
+   * left beyond the {@link LEAN_VECTORS} working vectors (see {@link basisVectorsFor}).
+   */
+  readonly basisVectors?: number;
+}
+
+/**
+ * Lanczos vectors worth keeping in `spareBytes` of memory for a working space of `dim` amplitudes: 1 (the start
+ * vector, always held) plus one per 8·dim bytes, capped at `cap` (a cycle never needs more than its Krylov size).
+ */
+export function basisVectorsFor(dim: number, spareBytes: number, cap = 1000): number {
+  const extra = Math.floor(Math.max(0, spareBytes) / (8 * dim));
+  return Math.max(1, Math.min(cap, 1 + extra));
 }
 
 /**
@@ -105,8 +121,10 @@ export function leanLowestEigenpairs(op: TransverseFieldOperator, options: LeanL
     s1: new Float64Array(maxIterations + 2),
     tri: new TridiagonalScratch(maxIterations + 2),
     stepOut: new Float64Array(2),
+    sums: new Float64Array(2),
     maxIterations,
     maxRestarts: options.maxRestarts ?? 12,
+    capacity: Math.max(1, Math.floor(options.basisVectors ?? 1)),
     products: 0,
     team: options.team ?? null,
   };
@@ -149,9 +167,6 @@ export function leanLowestEigenpairs(op: TransverseFieldOperator, options: LeanL
   };
 }
 
-/** Lanczos vectors stored per run: the start vector only; the second pass regenerates the rest. */
-const CAPACITY = 1;
-
 /** Everything one solve shares; coefficient arrays are indexed by Lanczos step. */
 interface Context {
   readonly op: TransverseFieldOperator;
@@ -166,8 +181,12 @@ interface Context {
   readonly s1: Float64Array;
   readonly tri: TridiagonalScratch;
   readonly stepOut: Float64Array;
+  /** ‖w‖² and the locked component from the update (vector-ops.ts). */
+  readonly sums: Float64Array;
   readonly maxIterations: number;
   readonly maxRestarts: number;
+  /** Lanczos vectors a cycle stores (the start vector counts); the second pass regenerates the rest. */
+  readonly capacity: number;
   products: number;
 }
 
@@ -261,24 +280,16 @@ function step(
   const a = sigma * (ctx.team !== null ? ctx.team.apply(ctx.op, u, sigma, uprev, gamma, w) : applyOperator(ctx.op, u, sigma, uprev, gamma, w));
   ctx.products++;
   const as = a * sigma;
-  const dim = w.length;
-  let nn = 0;
-  let c = 0;
-  if (locked === null) {
-    for (let z = 0; z < dim; z++) {
-      const x = w[z] - as * u[z];
-      w[z] = x;
-      nn += x * x;
-    }
-  } else {
-    for (let z = 0; z < dim; z++) {
-      const x = w[z] - as * u[z];
-      w[z] = x;
-      nn += x * x;
-      c += locked[z] * x;
-    }
-    for (let z = 0; z < dim; z++) w[z] -= c * locked[z];
+  const sums = ctx.sums;
+  if (ctx.team !== null) ctx.team.update(w, u, as, locked, sums);
+  else {
+    sums[0] = 0;
+    sums[1] = 0;
+    updateRange(w, u, as, locked, 0, w.length, sums);
   }
+  const nn = sums[0];
+  const c = sums[1];
+  if (locked !== null) combine(ctx, locked, w, -c, null, 0);
   ctx.stepOut[0] = a;
   ctx.stepOut[1] = Math.sqrt(Math.max(0, nn - c * c));
 }
@@ -330,20 +341,24 @@ function firstPass(
       break;
     }
     sigma[j + 1] = 1 / b;
-    if (j + 1 < CAPACITY) stored.push(w);
+    if (j + 1 < ctx.capacity) stored.push(w);
     // u_{j−1} is no longer needed unless it is stored.
-    if (j >= 1 && j - 1 >= CAPACITY) pool.give(uprev);
+    if (j >= 1 && j - 1 >= ctx.capacity) pool.give(uprev);
     uprev = u;
     u = w;
   }
   // Release the unstored tail vectors still held.
-  if (k - 1 >= CAPACITY) pool.give(u);
-  if (k - 2 >= CAPACITY) pool.give(uprev);
+  if (k - 1 >= ctx.capacity) pool.give(u);
+  if (k - 2 >= ctx.capacity) pool.give(uprev);
   return { k, settled: settled > 0 ? settled : k, stored };
 }
 
-/** Tile of the blocked linear combination: two 2^11-double accumulators stay in a 32 KiB L1 cache. */
-const COMBINE_TILE = 2048;
+/**
+ * Tile of the blocked linear combination: two 2^14-double accumulators (256 KiB) stay in the 2 MiB L2 cache while
+ * every stored vector streams 128 KiB through (short tiles measured slower with many stored vectors: each vector's
+ * segment is then too short for the prefetchers).
+ */
+const COMBINE_TILE = 16384;
 
 /**
  * y0 = Σ_j s0_j v_j and y1 = Σ_j s1_j v_j over the k Lanczos vectors: the stored ones in one blocked sweep, the rest
@@ -365,13 +380,7 @@ function ritzVectors(
     y0.fill(0, t, end);
     if (y1 !== null) y1.fill(0, t, end);
     for (let j = 0; j < count; j++) {
-      const u = stored[j];
-      const c0 = s0[j] * sigma[j];
-      for (let z = t; z < end; z++) y0[z] += c0 * u[z];
-      if (y1 !== null) {
-        const c1 = s1[j] * sigma[j];
-        for (let z = t; z < end; z++) y1[z] += c1 * u[z];
-      }
+      combineRange(stored[j], y0, s0[j] * sigma[j], y1, y1 !== null ? s1[j] * sigma[j] : 0, t, end);
     }
   }
   if (k <= count) return;
@@ -381,18 +390,19 @@ function ritzVectors(
   for (let j = count - 1; j < k - 1; j++) {
     const w = pool.take();
     step(ctx, j, u, uprev, w, locked);
-    const c0 = s0[j + 1] * sigma[j + 1];
-    for (let z = 0; z < dim; z++) y0[z] += c0 * w[z];
-    if (y1 !== null) {
-      const c1 = s1[j + 1] * sigma[j + 1];
-      for (let z = 0; z < dim; z++) y1[z] += c1 * w[z];
-    }
+    combine(ctx, w, y0, s0[j + 1] * sigma[j + 1], y1, y1 !== null ? s1[j + 1] * sigma[j + 1] : 0);
     if (j - 1 >= count) pool.give(uprev);
     uprev = u;
     u = w;
   }
   if (k - 1 >= count) pool.give(u);
   if (k - 2 >= count) pool.give(uprev);
+}
+
+/** y0 += c0·x (and y1 += c1·x), on the team's threads when there is one. */
+function combine(ctx: Context, x: Float64Array, y0: Float64Array, c0: number, y1: Float64Array | null, c1: number): void {
+  if (ctx.team !== null) ctx.team.combine(x, y0, c0, y1, c1);
+  else combineRange(x, y0, c0, y1, c1, 0, x.length);
 }
 
 function dot(a: Float64Array, b: Float64Array): number {

@@ -87,6 +87,14 @@ export function targetMemoryNeeded(target: CellSizeTarget, n: number): number {
   return targetBytesPerAmplitude(target) * 2 ** n + OVERHEAD_BYTES;
 }
 
+/**
+ * Bytes of an allowance a solve may spend on stored Lanczos vectors beyond what the instance needs at least, when
+ * `sharers` such solves may run at once (study cells: one per core, the pool's default; a command: 1).
+ */
+export function basisMemoryFor(problem: Problem, allowed: number, sharers: number): number {
+  return Math.max(0, allowed / Math.max(1, sharers) - spectralMemoryNeeded(problem));
+}
+
 /** The allowance a cell reads from the resolved method options: `spectral-memory` in bytes, or this machine's default. */
 export function allowedMemory(options: MethodOptions): number {
   const v = options["spectral-memory"];

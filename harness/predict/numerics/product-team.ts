@@ -10,11 +10,30 @@
  */
 import { MessageChannel, Worker } from "node:worker_threads";
 import { applyOperatorRange, type TransverseFieldOperator } from "./transverse-field.js";
+import { blockedKernel, productPlan } from "./blocked-product.js";
+import { combineRange, updateRange } from "./vector-ops.js";
+
+/** How long a new helper thread may take to load before the team gives up. */
+const START_TIMEOUT_MS = 30_000;
+/** Value of a helper's done slot once it has loaded (sequences start at 1, so 0 never means anything else). */
+export const READY = -2;
+/** Value of a helper's done slot after it failed. */
+export const FAILED = -1;
+
+/**
+ * URL of a compiled module beside this one: itself when running compiled, its dist/ copy when this file runs from
+ * source (the test runner), since a worker thread loads JavaScript only.
+ */
+function compiledSibling(name: string): URL {
+  return import.meta.url.endsWith(".ts")
+    ? new URL(`../../../dist/harness/predict/numerics/${name}`, import.meta.url)
+    : new URL(`./${name}`, import.meta.url);
+}
 
 /** Smallest working dimension worth splitting (below it the hand-off costs more than it saves). */
 export const TEAM_MIN_DIM = 2 ** 16;
 
-/** Control block layout (Int32): [0] sequence, [1] done sequence per helper starting at index 8. */
+/** Control block layout (Int32): [0] sequence, [1] stop, [2–7] the command, done sequence per helper from index 8. */
 const SEQ = 0;
 const STOP = 1;
 const DONE = 8;
@@ -24,8 +43,22 @@ const ID_PREV = 3;
 const ID_W = 4;
 const ID_DIAG = 5;
 const ID_TABLE = 6;
+/** Bit 0: mirror; bits 1–3: what to do (PHASE_*). */
 const FLAGS = 7;
-/** Float64 slots: sigma, gamma, field, scale, shift, cap, dim, then one partial α per helper from 8. */
+/** The single fused pass over a share of the output range (small spaces). */
+export const PHASE_FUSED = 0;
+/** Pass A (blocked-product.ts) over a share of the blocks. */
+export const PHASE_BLOCKS = 1;
+/** Pass B over a share of the groups, returning its part of wᵀv. */
+export const PHASE_GROUPS = 2;
+/** The recurrence's update w −= a·u with ‖w‖² (and the locked vector's component) over a share (vector-ops.ts). */
+export const PHASE_UPDATE = 3;
+/** y0 += c0·x (and y1 += c1·x) over a share. */
+export const PHASE_COMBINE = 4;
+/**
+ * Float64 slots: sigma, gamma, field, scale, shift, cap, dim (the vector phases use sigma and gamma for their
+ * coefficients), then one partial result per helper from 8, and a second one per helper after those.
+ */
 const P_SIGMA = 0;
 const P_GAMMA = 1;
 const P_FIELD = 2;
@@ -50,6 +83,11 @@ export function sharedUint16(length: number): Uint16Array {
 
 type Shared = Float64Array | Uint8Array | Uint16Array;
 
+/** Start of thread `index`'s share of `count` items (index = threads gives the end), a multiple of `unit`. */
+export function teamShare(count: number, unit: number, index: number, threads: number): number {
+  return Math.floor((count / unit) * index / threads) * unit;
+}
+
 /** Helper threads applying their share of each product. Call {@link close} when done. */
 export class ProductTeam {
   private readonly workers: Worker[] = [];
@@ -65,17 +103,30 @@ export class ProductTeam {
   constructor(threads: number) {
     this.threads = Math.max(1, Math.floor(threads));
     this.ctrl = new Int32Array(new SharedArrayBuffer(4 * (DONE + this.threads)));
-    this.params = new Float64Array(new SharedArrayBuffer(8 * (P_ALPHA + this.threads)));
+    this.params = new Float64Array(new SharedArrayBuffer(8 * (P_ALPHA + 2 * this.threads)));
     // Each helper has its own channel, so each receives every registration.
     for (let h = 1; h < this.threads; h++) {
       const ch = new MessageChannel();
       this.ports.push(ch.port1);
-      const worker = new Worker(new URL("./product-worker.js", import.meta.url), {
+      const worker = new Worker(compiledSibling("product-worker.js"), {
         workerData: { ctrl: this.ctrl.buffer, params: this.params.buffer, port: ch.port2, index: h, threads: this.threads },
         transferList: [ch.port2],
       });
       worker.unref();
       this.workers.push(worker);
+    }
+    // A helper that cannot start (a missing compiled file, a failed import) would otherwise leave apply() waiting
+    // for ever: each helper announces itself once, and the team refuses to go on without all of them.
+    for (let h = 1; h < this.threads; h++) {
+      const deadline = Date.now() + START_TIMEOUT_MS;
+      while (Atomics.load(this.ctrl, DONE + h) !== READY) {
+        const left = deadline - Date.now();
+        if (left <= 0) {
+          this.close();
+          throw new Error(`product team: helper thread ${h} did not start within ${START_TIMEOUT_MS / 1000} s`);
+        }
+        Atomics.wait(this.ctrl, DONE + h, 0, Math.min(left, 100));
+      }
     }
   }
 
@@ -95,7 +146,13 @@ export class ProductTeam {
   /** w = σ·(H v) − γ·vprev over all amplitudes, split between the threads; returns wᵀv. */
   apply(op: TransverseFieldOperator, v: Float64Array, sigma: number, vprev: Float64Array, gamma: number, w: Float64Array): number {
     const dim = op.dim;
-    if (this.threads === 1 || dim < TEAM_MIN_DIM) return applyOperatorRange(op, v, sigma, vprev, gamma, w, 0, dim);
+    const plan = productPlan(op);
+    if (this.threads === 1 || dim < TEAM_MIN_DIM) {
+      if (plan === null) return applyOperatorRange(op, v, sigma, vprev, gamma, w, 0, dim);
+      const kernel = blockedKernel();
+      kernel.passA(op, plan, v, sigma, vprev, gamma, w, 0, plan.blocks);
+      return kernel.passB(op, plan, v, sigma, w, 0, plan.groups);
+    }
     const { ctrl, params } = this;
     const d = op.diagonal;
     ctrl[ID_V] = this.idOf(v);
@@ -111,26 +168,87 @@ export class ProductTeam {
       params[P_SHIFT] = d.shift;
       params[P_CAP] = d.cap;
     }
-    ctrl[FLAGS] = op.mirror ? 1 : 0;
     params[P_SIGMA] = sigma;
     params[P_GAMMA] = gamma;
     params[P_FIELD] = op.field;
     params[P_DIM] = dim;
+    if (plan === null) {
+      return this.round(op.mirror, PHASE_FUSED, (from, to) => applyOperatorRange(op, v, sigma, vprev, gamma, w, from, to), dim, 8);
+    }
+    // Pass B reads w across every block, so all of pass A ends before any of it starts.
+    const kernel = blockedKernel();
+    this.round(op.mirror, PHASE_BLOCKS, (from, to) => (kernel.passA(op, plan, v, sigma, vprev, gamma, w, from, to), 0), plan.blocks, 1);
+    return this.round(op.mirror, PHASE_GROUPS, (from, to) => kernel.passB(op, plan, v, sigma, w, from, to), plan.groups, 1);
+  }
+
+  /**
+   * w = w − a·u over all amplitudes; out[0] = ‖w‖² and out[1] = lockedᵀw after the update (0 without `locked`).
+   * Parts are added in thread order, so the result does not depend on timing.
+   */
+  update(w: Float64Array, u: Float64Array, a: number, locked: Float64Array | null, out: Float64Array): void {
+    out[0] = 0;
+    out[1] = 0;
+    const dim = w.length;
+    if (this.threads === 1 || dim < TEAM_MIN_DIM) {
+      updateRange(w, u, a, locked, 0, dim, out);
+      return;
+    }
+    this.ctrl[ID_V] = this.idOf(w);
+    this.ctrl[ID_PREV] = this.idOf(u);
+    this.ctrl[ID_W] = locked === null ? -1 : this.idOf(locked);
+    this.params[P_SIGMA] = a;
+    this.params[P_DIM] = dim;
+    out[0] = this.round(false, PHASE_UPDATE, (from, to) => (updateRange(w, u, a, locked, from, to, out), out[0]), dim, 8);
+    out[1] += this.second;
+  }
+
+  /** y0 += c0·x and, with y1, y1 += c1·x over all amplitudes. */
+  combine(x: Float64Array, y0: Float64Array, c0: number, y1: Float64Array | null, c1: number): void {
+    const dim = x.length;
+    if (this.threads === 1 || dim < TEAM_MIN_DIM) {
+      combineRange(x, y0, c0, y1, c1, 0, dim);
+      return;
+    }
+    this.ctrl[ID_V] = this.idOf(x);
+    this.ctrl[ID_PREV] = this.idOf(y0);
+    this.ctrl[ID_W] = y1 === null ? -1 : this.idOf(y1);
+    this.params[P_SIGMA] = c0;
+    this.params[P_GAMMA] = c1;
+    this.params[P_DIM] = dim;
+    this.round(false, PHASE_COMBINE, (from, to) => (combineRange(x, y0, c0, y1, c1, from, to), 0), dim, 8);
+  }
+
+  /** Sum of the helpers' second partial results in the last round, plus the caller's (see {@link update}). */
+  private second = 0;
+
+  /**
+   * One command to every thread: the caller does share 0 of `count` items (in units of `unit`) with `own`, the
+   * helpers the others; returns the sum of the parts in thread order. For the update phase, the caller's second
+   * part is in the `out` array it filled and the helpers' are added to {@link second}.
+   */
+  private round(mirror: boolean, phase: number, own: (from: number, to: number) => number, count: number, unit: number): number {
+    const { ctrl, params } = this;
+    ctrl[FLAGS] = (mirror ? 1 : 0) | (phase << 1);
     const seq = ++this.seq;
     Atomics.store(ctrl, SEQ, seq);
     Atomics.notify(ctrl, SEQ);
-    const share = dim / this.threads; // dim ≥ 2^16 and threads ≤ 8 keep shares multiples of 8
-    let alpha = applyOperatorRange(op, v, sigma, vprev, gamma, w, 0, share);
+    this.second = 0;
+    let total = 0;
+    const mine = own(0, teamShare(count, unit, 1, this.threads));
+    total += mine;
+    let second = 0;
     for (let h = 1; h < this.threads; h++) {
       for (;;) {
         const done = Atomics.load(ctrl, DONE + h);
         if (done === seq) break;
-        if (done < 0) throw new Error("product team: a helper thread failed");
+        if (done === FAILED) throw new Error("product team: a helper thread failed");
         Atomics.wait(ctrl, DONE + h, done, 60_000);
       }
-      alpha += params[P_ALPHA + h];
+      total += params[P_ALPHA + h];
+      second += params[P_ALPHA + this.threads + h];
     }
-    return alpha;
+    this.second = second;
+    return total;
   }
 
   /** Stops the helpers. */

@@ -4,6 +4,9 @@
  */
 import { type MessagePort, receiveMessageOnPort, workerData } from "node:worker_threads";
 import { applyOperatorRange, type TransverseFieldOperator } from "./transverse-field.js";
+import { blockedKernel, productPlan } from "./blocked-product.js";
+import { FAILED, PHASE_BLOCKS, PHASE_COMBINE, PHASE_FUSED, PHASE_UPDATE, READY, teamShare } from "./product-team.js";
+import { combineRange, updateRange } from "./vector-ops.js";
 
 const data = workerData as { ctrl: SharedArrayBuffer; params: SharedArrayBuffer; port: MessagePort; index: number; threads: number };
 const ctrl = new Int32Array(data.ctrl);
@@ -21,7 +24,26 @@ function receive(): void {
   }
 }
 
+const partial = new Float64Array(2);
+
+/** A vector pass of the recurrence (vector-ops.ts) over this helper's share; partial results into params. */
+function vectorPhase(phase: number, dim: number): void {
+  const from = teamShare(dim, 8, data.index, data.threads);
+  const to = teamShare(dim, 8, data.index + 1, data.threads);
+  const a = arrays[ctrl[2]] as Float64Array;
+  const b = arrays[ctrl[3]] as Float64Array;
+  const c = ctrl[4] >= 0 ? (arrays[ctrl[4]] as Float64Array) : null;
+  partial[0] = 0;
+  partial[1] = 0;
+  if (phase === PHASE_UPDATE) updateRange(a, b, params[0], c, from, to, partial);
+  else combineRange(a, b, params[0], c, params[1], from, to);
+  params[P_ALPHA + data.index] = partial[0];
+  params[P_ALPHA + data.threads + data.index] = partial[1];
+}
+
 let seen = 0;
+Atomics.store(ctrl, DONE + data.index, READY);
+Atomics.notify(ctrl, DONE + data.index);
 try {
   for (;;) {
     Atomics.wait(ctrl, 0, seen);
@@ -31,27 +53,50 @@ try {
     if (Atomics.load(ctrl, 1) === 1) break;
     receive();
     const dim = params[6];
+    const flags = ctrl[7];
+    const phase = flags >> 1;
+    if (phase === PHASE_UPDATE || phase === PHASE_COMBINE) {
+      vectorPhase(phase, dim);
+      Atomics.store(ctrl, DONE + data.index, seq);
+      Atomics.notify(ctrl, DONE + data.index);
+      continue;
+    }
     const tableId = ctrl[6];
     const op: TransverseFieldOperator = {
       dim,
       bits: Math.round(Math.log2(dim)),
-      mirror: ctrl[7] === 1,
+      mirror: (flags & 1) === 1,
       field: params[2],
       diagonal:
         tableId >= 0
           ? { kind: "levels", levels: arrays[ctrl[5]] as Uint8Array, table: arrays[tableId] as Float64Array }
           : { kind: "affine", costs: arrays[ctrl[5]] as Float64Array, scale: params[3], shift: params[4], cap: params[5] },
     };
-    const share = dim / data.threads;
-    const from = share * data.index;
-    params[P_ALPHA + data.index] = applyOperatorRange(
-      op, arrays[ctrl[2]] as Float64Array, params[0], arrays[ctrl[3]] as Float64Array, params[1], arrays[ctrl[4]] as Float64Array, from, from + share,
-    );
+    const v = arrays[ctrl[2]] as Float64Array;
+    const vprev = arrays[ctrl[3]] as Float64Array;
+    const w = arrays[ctrl[4]] as Float64Array;
+    const sigma = params[0];
+    const gamma = params[1];
+    const { index, threads } = data;
+    let part = 0;
+    if (phase === PHASE_FUSED) {
+      part = applyOperatorRange(op, v, sigma, vprev, gamma, w, teamShare(dim, 8, index, threads), teamShare(dim, 8, index + 1, threads));
+    } else {
+      const plan = productPlan(op);
+      if (plan === null) throw new Error("product team: no blocked plan for this operator");
+      const kernel = blockedKernel();
+      if (phase === PHASE_BLOCKS) {
+        kernel.passA(op, plan, v, sigma, vprev, gamma, w, teamShare(plan.blocks, 1, index, threads), teamShare(plan.blocks, 1, index + 1, threads));
+      } else {
+        part = kernel.passB(op, plan, v, sigma, w, teamShare(plan.groups, 1, index, threads), teamShare(plan.groups, 1, index + 1, threads));
+      }
+    }
+    params[P_ALPHA + data.index] = part;
     Atomics.store(ctrl, DONE + data.index, seq);
     Atomics.notify(ctrl, DONE + data.index);
   }
 } catch (e) {
-  Atomics.store(ctrl, DONE + data.index, -1);
+  Atomics.store(ctrl, DONE + data.index, FAILED);
   Atomics.notify(ctrl, DONE + data.index);
   throw e;
 }
