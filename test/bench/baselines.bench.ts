@@ -19,7 +19,6 @@ import { annealTrials, defaultBetaRange } from "../../solvers/anneal.js";
 import { breakwalkCompiled } from "../../solvers/breakwalk.js";
 import { medianFlips } from "../../harness/stats/run-length.js";
 import { temperingTrials } from "../../solvers/tempering.js";
-import { walkRunLengthsCompiled } from "../../solvers/walk-run-length.js";
 import { walkCompiled } from "../../solvers/walk.js";
 import { compileCnf } from "../../solvers/compile-cnf.js";
 
@@ -90,7 +89,7 @@ export async function run(): Promise<void> {
     const perFile = (fn: (f: (typeof formulas)[number], name: string) => number): number[] =>
       formulas.map((f, i) => fn(f, names[i])).sort((a, b) => a - b);
     const bwMedians = perFile((f, name) => medianFlips(breakwalkCompiled(f, { trials: 21, cap: 1e7, seed: name, stop: null }).runLengths));
-    const swMedians = perFile((f, name) => medianFlips(walkRunLengthsCompiled(f, { trials: 21, cap: 1e8, seed: name, stop: null }).runLengths));
+    const swMedians = perFile((f, name) => medianFlips(walkCompiled(f, { trials: 21, maxFlips: 1e8, restartFlips: 3 * f.variables, seed: name, stop: null }).runLengths));
     const mid = (v: number[]): number => (v[49] + v[50]) / 2;
     console.log(
       `uf50-218, first 100 files, 21 trials each: median over files of the median flips to solution: ` +
