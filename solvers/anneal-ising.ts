@@ -61,7 +61,9 @@ export function energyFromTerms(model: Ising, s: Float64Array): number {
  * Read-only tables of a model, shared by all engines built on it: tempering (solvers/tempering.ts) runs one engine
  * per replica, and one shared copy stays in cache. Measured (spin-update attempts per CPU-second, tempering against
  * annealing at equal work, node 20, loaded 2-core test machine): SK n = 64, 8 replicas × 500 rounds 0.83 → 0.89 of the
- * annealer's rate, 16 × 100 0.76 → 0.83; 3-spin n = 32 unchanged within noise (its per-replica term products dominate).
+ * annealer's rate, 16 × 100 0.76 → 0.83. Later (issue 12): engine kind, dense fields and the start energy decided
+ * once per model, cheaper starts, and term tables per member slot with no per-term replica state (3-spin n = 32:
+ * both solvers about 1.3× faster); test/bench/baselines.bench.ts gives the figures and what bounds the ratio.
  */
 const SHARED_TABLES = new WeakMap<Ising, { dense?: DenseTables; terms?: TermTables }>();
 
@@ -104,6 +106,11 @@ interface TermTables {
   readonly termJ: Float64Array;
   readonly memberStart: Int32Array;
   readonly memberOf: Int32Array;
+  /** Per member slot k (spin i in term t = memberOf[k]): J_t, so a flip of i reads its terms' J in a row. */
+  readonly memberJ: Float64Array;
+  /** The other spins of term memberOf[k], in the term's order: partners[partnerStart[k] .. partnerStart[k+1]). */
+  readonly partnerStart: Int32Array;
+  readonly partners: Int32Array;
 }
 
 /** {@link TermTables} of a model, built once per model. */
@@ -130,7 +137,25 @@ function termTables(model: Ising): TermTables {
     for (let t = 0; t < J.length; t++) {
       for (let k = start[t]; k < start[t + 1]; k++) memberOf[fill[spins[k]]++] = t;
     }
-    shared.terms = { termStart: Int32Array.from(start), termSpins: Int32Array.from(spins), termJ: Float64Array.from(J), memberStart, memberOf };
+    const memberJ = new Float64Array(spins.length);
+    const partnerStart = new Int32Array(spins.length + 1);
+    for (let k = 0; k < spins.length; k++) {
+      const t = memberOf[k];
+      memberJ[k] = J[t];
+      partnerStart[k + 1] = partnerStart[k] + (start[t + 1] - start[t] - 1);
+    }
+    const partners = new Int32Array(partnerStart[spins.length]);
+    for (let i = 0; i < n; i++) {
+      for (let k = memberStart[i]; k < memberStart[i + 1]; k++) {
+        const t = memberOf[k];
+        let at = partnerStart[k];
+        for (let q = start[t]; q < start[t + 1]; q++) if (spins[q] !== i) partners[at++] = spins[q];
+      }
+    }
+    shared.terms = {
+      termStart: Int32Array.from(start), termSpins: Int32Array.from(spins), termJ: Float64Array.from(J), memberStart, memberOf,
+      memberJ, partnerStart, partners,
+    };
     SHARED_TABLES.set(model, shared);
   }
   return shared.terms;
@@ -291,8 +316,8 @@ export class DenseEngine implements Engine {
 }
 
 /**
- * Any Ising model through its term list: product sign of each term, and per spin g_i = Σ_{t∋i} J_t·Π_t s,
- * so ΔE_i = 2·g_i; flipping i negates its terms' products and moves g_j of their other spins.
+ * Any Ising model through its term list: per spin g_i = Σ_{t∋i} J_t·Π_t s, so ΔE_i = 2·g_i; flipping i negates
+ * its terms' products and moves g_j of their other spins.
  */
 export class TermEngine implements Engine {
   readonly n: number;
@@ -307,15 +332,12 @@ export class TermEngine implements Engine {
   private readonly termStart: Int32Array;
   private readonly termSpins: Int32Array;
   private readonly termJ: Float64Array;
-  /** Terms containing spin i: memberOf[memberStart[i] .. memberStart[i+1]). */
+  /** Member slots of spin i (one per term containing it): memberStart[i] .. memberStart[i+1]. */
   private readonly memberStart: Int32Array;
-  private readonly memberOf: Int32Array;
-  /**
-   * Sign (±1) of each term's spin product. One byte a term, not eight: tempering keeps R of these (one engine a
-   * replica) beside the shared term tables, and on 3-spin n = 32 (4960 terms) eight-byte signs made 16 replicas
-   * overflow the 512 KiB L2 cache (see the bench `baselines`). Read back as the same ±1, so every value is unchanged.
-   */
-  private readonly product: Int8Array;
+  /** Per member slot: its term's J and the term's other spins (see {@link TermTables}). */
+  private readonly memberJ: Float64Array;
+  private readonly partnerStart: Int32Array;
+  private readonly partners: Int32Array;
   private readonly sum: Float64Array;
   private readonly spin: Float64Array;
   private readonly bits: Uint8Array;
@@ -329,9 +351,9 @@ export class TermEngine implements Engine {
     this.termSpins = tables.termSpins;
     this.termJ = tables.termJ;
     this.memberStart = tables.memberStart;
-    this.memberOf = tables.memberOf;
-    const terms = tables.termJ.length;
-    this.product = new Int8Array(terms);
+    this.memberJ = tables.memberJ;
+    this.partnerStart = tables.partnerStart;
+    this.partners = tables.partners;
     this.sum = new Float64Array(n);
     this.spin = new Float64Array(n);
     this.bits = new Uint8Array(n);
@@ -358,7 +380,7 @@ export class TermEngine implements Engine {
   start(rng: Rng, threshold: number): void {
     this.rng = rng;
     const n = this.n;
-    const { termStart, termSpins, termJ, product, sum, spin, bits } = this;
+    const { termStart, termSpins, termJ, sum, spin, bits } = this;
     randomBits(rng, bits);
     for (let i = 0; i < n; i++) spin[i] = bits[i] === 0 ? 1 : -1;
     sum.fill(0);
@@ -369,7 +391,6 @@ export class TermEngine implements Engine {
       const to = termStart[t + 1];
       let p = 1;
       for (let k = from; k < to; k++) p *= spin[termSpins[k]];
-      product[t] = p;
       const w = termJ[t] * p;
       for (let k = from; k < to; k++) sum[termSpins[k]] += w;
     }
@@ -389,17 +410,21 @@ export class TermEngine implements Engine {
   }
 
   private apply(i: number): void {
-    const { termStart, termSpins, termJ, memberStart, memberOf, product, sum } = this;
-    this.spin[i] = -this.spin[i];
+    const { memberStart, memberJ, partnerStart, partners, spin, sum } = this;
+    const si = spin[i];
+    // Each term of i: its spin product p = ±1 (from the spins, before i flips), then g_j −= 2·J_t·p for its other
+    // spins in the term's order: the same updates in the same order as before. Tables laid out per member slot
+    // read J and the partners in a row, and no per-term state is kept, so a replica is just its spins and sums
+    // (tempering keeps R replicas beside the shared tables). Measured on 3-spin n = 32 (bench `baselines`).
     for (let k = memberStart[i], end = memberStart[i + 1]; k < end; k++) {
-      const t = memberOf[k];
-      const w2 = 2 * termJ[t] * product[t];
-      product[t] = -product[t];
-      for (let q = termStart[t], e = termStart[t + 1]; q < e; q++) {
-        const j = termSpins[q];
-        if (j !== i) sum[j] -= w2;
-      }
+      const from = partnerStart[k];
+      const to = partnerStart[k + 1];
+      let p = si;
+      for (let q = from; q < to; q++) p *= spin[partners[q]];
+      const w2 = 2 * memberJ[k] * p;
+      for (let q = from; q < to; q++) sum[partners[q]] -= w2;
     }
+    spin[i] = -si;
     sum[i] = -sum[i];
   }
 
