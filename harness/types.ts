@@ -87,7 +87,7 @@ export interface PredictionRow {
 
 /**
  * A run-length distribution (RLD): flips to solution per trial of a randomised solver on one instance, a trial not
- * solved within its cap censored at the cap (solvers/breakwalk.ts and walk-run-length.ts make them; the statistics
+ * solved within its cap censored at the cap (solvers/breakwalk.ts and walk.ts make them; the statistics
  * that follow from one are in harness/stats/run-length.ts).
  */
 export interface RunLengths {

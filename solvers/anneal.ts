@@ -199,17 +199,27 @@ export function defaultBetaRange(problem: Problem): { betaStart: number; betaEnd
 /** The fastest engine for a problem (see {@link annealTrials}); tempering (solvers/tempering.ts) runs one per replica. */
 export function makeEngine(problem: Problem): Engine {
   if (problem.kind === "cnf") return new CnfEngine(compileCnf(problem.cnf));
-  const model = problem.ising;
-  const n = model.spins;
-  let order = 0;
-  let pairs = 0;
-  for (let t = 0; t + 1 < model.termOffsets.length; t++) {
-    const size = model.termOffsets[t + 1] - model.termOffsets[t];
-    order = Math.max(order, size);
-    if (size === 2) pairs++;
+  return isingEngineKind(problem.ising) === "dense" ? new DenseEngine(problem.ising) : new TermEngine(problem.ising);
+}
+
+/** Engine kind per model, decided once (a tempering call builds R engines on one model). */
+const ENGINE_KIND = new WeakMap<Ising, "dense" | "term">();
+
+function isingEngineKind(model: Ising): "dense" | "term" {
+  let kind = ENGINE_KIND.get(model);
+  if (kind === undefined) {
+    const n = model.spins;
+    let order = 0;
+    let pairs = 0;
+    for (let t = 0; t + 1 < model.termOffsets.length; t++) {
+      const size = model.termOffsets[t + 1] - model.termOffsets[t];
+      order = Math.max(order, size);
+      if (size === 2) pairs++;
+    }
+    kind = order <= 2 && n <= DENSE_MAX_SPINS && 4 * pairs >= (n * (n - 1)) / 2 ? "dense" : "term";
+    ENGINE_KIND.set(model, kind);
   }
-  if (order <= 2 && n <= DENSE_MAX_SPINS && 4 * pairs >= (n * (n - 1)) / 2) return new DenseEngine(model);
-  return new TermEngine(model);
+  return kind;
 }
 
 /** Settings of the annealer on the registry. */

@@ -23,7 +23,7 @@
  * (./trial-seeds.ts).
  */
 import type { Cnf } from "../harness/model/cnf.js";
-import { stopRequested, type StopFlag, type TrialsResult, type TrialsSolver } from "./types.js";
+import { stepsToSolution, stopRequested, type StopFlag, type TrialsResult, type TrialsSolver } from "./types.js";
 import { compileCnf, type CompiledCnf } from "./compile-cnf.js";
 import { trialKey, trialRng } from "./trial-seeds.js";
 import type { RunLengths } from "../harness/types.js";
@@ -330,8 +330,7 @@ export const breakwalkSolver: TrialsSolver<BreakwalkSettings> = {
       trials: input.trials, cap: input.runLength, seed: input.seed, stop: input.stop, firstTrial: 0,
       rule: s.rule ?? undefined, cb: s.cb ?? undefined, eps: s.eps ?? undefined,
     });
-    const steps = Array.from(r.runLengths.flips, (f, t) => (r.runLengths.solved[t] === 1 ? f : -1));
     const rule = r.rule.rule === "poly" ? `poly cb=${r.rule.cb} eps=${r.rule.eps}` : `exp cb=${r.rule.cb}`;
-    return { trials: r.trials, successes: r.successes, work: r.work, best: r.best, censored: r.censored, stepsToSolution: steps, extra: { breakwalk_rule: rule } };
+    return { trials: r.trials, successes: r.successes, work: r.work, best: r.best, censored: r.censored, stepsToSolution: stepsToSolution(r.runLengths), extra: { breakwalk_rule: rule } };
   },
 };

@@ -3,6 +3,7 @@
  * they get a seed and a stop flag and return counts. The worker measures wall time around them.
  */
 import type { Problem } from "../harness/model/problem.js";
+import type { RunLengths } from "../harness/types.js";
 
 /**
  * Cooperative stop flag for budgets: an Int32Array view of a SharedArrayBuffer (length ≥ 1). Element 0
@@ -124,6 +125,14 @@ export interface TrialsOutcome extends TrialsResult {
    * them), e.g. the annealer's temperature range. Keys are snake_case column names with units.
    */
   readonly extra?: Readonly<Record<string, number | string | boolean | null>>;
+}
+
+/**
+ * A run-length distribution as {@link TrialsOutcome.stepsToSolution}: each trial's flips when solved, −1 when not
+ * (the inverse of harness/stats/run-length.ts `runLengthsFromSteps`).
+ */
+export function stepsToSolution(rld: RunLengths): number[] {
+  return Array.from(rld.flips, (flips, t) => (rld.solved[t] === 1 ? flips : -1));
 }
 
 /**

@@ -16,7 +16,7 @@ import { Rng, deriveSeed } from "../harness/random.js";
 import { breakTable, breakwalkCompiled, breakwalkTrials, defaultBreakwalkRule } from "../solvers/breakwalk.js";
 import { compileCnf } from "../solvers/compile-cnf.js";
 import { trialKey, trialRng } from "../solvers/trial-seeds.js";
-import { walkRunLengths } from "../solvers/walk-run-length.js";
+import { walkTrials } from "../solvers/walk.js";
 import { medianFlips } from "../harness/stats/run-length.js";
 
 function randomKSat(rng: Rng, n: number, m: number, k: number): Cnf {
@@ -158,7 +158,7 @@ describe("breakwalk", () => {
     for (let rep = 0; rep < 20; rep++) {
       const n = 8 + rng.below(5);
       const cnf = randomKSat(rng, n, Math.round(4.6 * n), 3);
-      const r = walkRunLengths(cnf, { trials: 10, cap: 20000, seed: `w${rep}`, stop: null });
+      const r = walkTrials(cnf, { trials: 10, maxFlips: 20000, restartFlips: 3 * n, seed: `w${rep}`, stop: null });
       expect(r.successes > 0).toBe(satisfiable(cnf));
     }
   });
@@ -201,7 +201,7 @@ describe.skipIf(!present)("breakwalk on SATLIB uf50-218 / uuf50-218 (Hoos & Stü
     for (const name of names) {
       const cnf = load("uf50-218", name);
       const bw = breakwalkTrials(cnf, { trials: 21, cap: 1_000_000, seed: name, stop: null });
-      const sw = walkRunLengths(cnf, { trials: 21, cap: 10_000_000, seed: name, stop: null });
+      const sw = walkTrials(cnf, { trials: 21, maxFlips: 10_000_000, restartFlips: 3 * cnf.variables, seed: name, stop: null });
       ratioProduct += Math.log(medianFlips(sw.runLengths) / medianFlips(bw.runLengths));
     }
     const geometricMeanRatio = Math.exp(ratioProduct / names.length);

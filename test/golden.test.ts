@@ -80,6 +80,9 @@ describe("golden tables of two small studies", () => {
   it("ground truth and seeded solver counts of known cells", () => {
     expect(cell(ksat, "truth|10|1")).toMatchObject({ seed: "95fd9ee055db09abba1eac1b75d27405", optimum: 0, degeneracy: 1, assignments: 1024 });
     expect(cell(ksat, "run|10|1|walk|30")).toMatchObject({ trials: 20, successes: 4, work: 535 });
+    // Issue 12 made the walk record its flips to solution per trial; its stream did not change (the counts above
+    // are those of b9834a9): 16 censored trials × 30 flips + 20 + 13 + 10 + 12 = 535 = work.
+    expect(cell(ksat, "run|10|1|walk|30").steps_to_solution).toEqual([-1, -1, -1, -1, 20, -1, -1, -1, 13, -1, -1, -1, 10, -1, -1, -1, 12, -1, -1, -1]);
     expect(cell(ksat, "run|10|1|anneal|10")).toMatchObject({ trials: 20, successes: 13, work: 2000 });
     expect(cell(ksat, "run|10|1|anneal|30")).toMatchObject({ trials: 20, successes: 18, work: 6000 });
     expect(cell(sk, "truth|10|1")).toMatchObject({ seed: "0c1b3c7b4dac07de27405db8da4aa850", degeneracy: 2, assignments: 1024 });

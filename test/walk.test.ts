@@ -1,11 +1,16 @@
 import { createHash } from "node:crypto";
+import { readdirSync, readFileSync } from "node:fs";
+import { join } from "node:path";
 import { describe, expect, it } from "vitest";
+import { parseDimacs } from "../harness/formats/dimacs.js";
 import { deriveSeed, Rng } from "../harness/random.js";
 import { clausesOf, cnfFromClauses, violatedBy, type Cnf } from "../harness/model/cnf.js";
 import { wilsonInterval } from "../harness/stats/tts.js";
 import { walkTrials } from "../solvers/walk.js";
 import { compileCnf } from "../solvers/compile-cnf.js";
 import { trialKey, trialRng, uniformBelow } from "../solvers/trial-seeds.js";
+import { stepsToSolution } from "../solvers/types.js";
+import { HAVE_SATLIB, SATLIB_DIR } from "./helpers/paths.js";
 
 /** Fewest violated clauses over all 2^n assignments (brute force, n ≤ 20). */
 function bruteOptimum(cnf: Cnf): number {
@@ -140,6 +145,8 @@ describe("walkTrials", () => {
     expect(parts.reduce((a, r) => a + r.trials, 0)).toBe(whole.trials);
     expect(parts.reduce((a, r) => a + r.successes, 0)).toBe(whole.successes);
     expect(parts.reduce((a, r) => a + r.work, 0)).toBe(whole.work);
+    expect(parts.flatMap((r) => [...r.runLengths.flips])).toEqual([...whole.runLengths.flips]);
+    expect(parts.flatMap((r) => [...r.runLengths.solved])).toEqual([...whole.runLengths.solved]);
     expect(Math.min(...parts.map((r) => r.best))).toBe(whole.best);
     // The seed matters: another seed gives another run (work is a sum over 600 random trials).
     expect(walkTrials(cnf, { trials: 600, seed: "other", stop: null }).work).not.toBe(whole.work);
@@ -147,20 +154,26 @@ describe("walkTrials", () => {
 
   it("checks the start: a formula every assignment satisfies succeeds in every trial with zero flips", () => {
     const cnf = cnfFromClauses(4, [[1, -1], [2, 3, -2]]); // tautologies only
-    expect(walkTrials(cnf, { trials: 20, seed: "taut", stop: null })).toEqual({ trials: 20, successes: 20, work: 0, best: 0, censored: false });
+    const r = walkTrials(cnf, { trials: 20, seed: "taut", stop: null });
+    expect(r).toMatchObject({ trials: 20, successes: 20, work: 0, best: 0, censored: false });
+    expect([...r.runLengths.flips]).toEqual(new Array(20).fill(0));
+    expect([...r.runLengths.solved]).toEqual(new Array(20).fill(1));
   });
 
   it("returns at once, censored, when the stop flag is already raised", () => {
     const stop = new Int32Array(new SharedArrayBuffer(4));
     Atomics.store(stop, 0, 1);
     const cnf = cnfFromClauses(3, [[1], [-1]]);
-    expect(walkTrials(cnf, { trials: 1000, seed: "stop", stop })).toEqual({ trials: 0, successes: 0, work: 0, best: Infinity, censored: true });
+    const r = walkTrials(cnf, { trials: 1000, seed: "stop", stop });
+    expect(r).toMatchObject({ trials: 0, successes: 0, work: 0, best: Infinity, censored: true });
+    expect(r.runLengths.flips.length).toBe(0);
   });
 
   it("rejects bad options and literals outside 1..n", () => {
     const cnf = cnfFromClauses(3, [[1, 2]]);
     expect(() => walkTrials(cnf, { trials: -1, seed: "x", stop: null })).toThrow(RangeError);
     expect(() => walkTrials(cnf, { trials: 1, maxFlips: 1.5, seed: "x", stop: null })).toThrow(RangeError);
+    expect(() => walkTrials(cnf, { trials: 1, restartFlips: 0, seed: "x", stop: null })).toThrow(RangeError);
     expect(() => compileCnf(cnfFromClauses(3, [[4]]))).toThrow(RangeError);
   });
 
@@ -216,10 +229,11 @@ describe("uniformBelow", () => {
 /**
  * Schöning's walk transcribed plainly from the TSDoc of walkCompiled, with ordinary arrays, Rng.below and a
  * linear search for list positions: the same compilation (first occurrence of a repeated literal kept,
- * tautologies dropped, empty clauses counted), the same draws and the same violated-list discipline. The fast
- * loop must agree with it draw for draw.
+ * tautologies dropped, empty clauses counted), the same draws, restarts and violated-list discipline. The fast
+ * loop must agree with it draw for draw. Per trial it also returns the flips, whether it was solved and the
+ * final assignment (variable v + 1 true iff values[v] === 1).
  */
-function referenceWalk(cnf: Cnf, trials: number, seed: string, maxFlips: number) {
+function referenceWalk(cnf: Cnf, trials: number, seed: string, maxFlips: number, restartFlips = maxFlips, firstTrial = 0) {
   const n = cnf.variables;
   const kept: number[][] = [];
   let empty = 0;
@@ -236,71 +250,185 @@ function referenceWalk(cnf: Cnf, trials: number, seed: string, maxFlips: number)
   let successes = 0;
   let work = 0;
   let best = Infinity;
-  for (let t = 0; t < trials; t++) {
+  const perTrial: Array<{ flips: number; solved: boolean; values: number[] }> = [];
+  for (let t = firstTrial; t < firstTrial + trials; t++) {
     const rng = trialRng(seed, t);
-    const value: number[] = [];
-    for (let v = 0; v < n; v += 32) {
-      const bits = rng.nextU32();
-      for (let b = 0; b < 32 && v + b < n; b++) value.push((bits >>> b) & 1);
-    }
-    const isTrue = (lit: number): boolean => (lit > 0 ? value[lit - 1] === 1 : value[-lit - 1] === 0);
-    const count = kept.map((c) => c.filter(isTrue).length);
-    const list = kept.map((_, c) => c).filter((c) => count[c] === 0);
-    let trialBest = list.length;
+    let value: number[] = [];
     let flips = 0;
-    while (list.length > 0 && flips < maxFlips) {
-      let lit: number;
-      if (k > 0) {
-        const j = rng.below(list.length * k);
-        lit = kept[list[Math.floor(j / k)]][j % k];
-      } else {
-        const c = list[rng.below(list.length)];
-        lit = kept[c][rng.below(kept[c].length)];
+    let list: number[] = [];
+    let trialBest = Infinity;
+    do {
+      value = [];
+      for (let v = 0; v < n; v += 32) {
+        const bits = rng.nextU32();
+        for (let b = 0; b < 32 && v + b < n; b++) value.push((bits >>> b) & 1);
       }
-      const v = Math.abs(lit) - 1;
-      value[v] ^= 1;
-      const nowTrue = value[v] === 1 ? v + 1 : -(v + 1); // the literal of v that is now true
-      kept.forEach((c, i) => {
-        if (c.includes(nowTrue) && count[i]++ === 0) {
-          const at = list.indexOf(i);
-          list[at] = list[list.length - 1];
-          list.pop();
-        }
-      });
-      kept.forEach((c, i) => {
-        if (c.includes(-nowTrue) && --count[i] === 0) list.push(i);
-      });
-      flips++;
+      const isTrue = (lit: number): boolean => (lit > 0 ? value[lit - 1] === 1 : value[-lit - 1] === 0);
+      const count = kept.map((c) => c.filter(isTrue).length);
+      list = kept.map((_, c) => c).filter((c) => count[c] === 0);
       trialBest = Math.min(trialBest, list.length);
-    }
+      const limit = Math.min(flips + restartFlips, maxFlips);
+      while (list.length > 0 && flips < limit) {
+        let lit: number;
+        if (k > 0) {
+          const j = rng.below(list.length * k);
+          lit = kept[list[Math.floor(j / k)]][j % k];
+        } else {
+          const c = list[rng.below(list.length)];
+          lit = kept[c][rng.below(kept[c].length)];
+        }
+        const v = Math.abs(lit) - 1;
+        value[v] ^= 1;
+        const nowTrue = value[v] === 1 ? v + 1 : -(v + 1); // the literal of v that is now true
+        kept.forEach((c, i) => {
+          if (c.includes(nowTrue) && count[i]++ === 0) {
+            const at = list.indexOf(i);
+            list[at] = list[list.length - 1];
+            list.pop();
+          }
+        });
+        kept.forEach((c, i) => {
+          if (c.includes(-nowTrue) && --count[i] === 0) list.push(i);
+        });
+        flips++;
+        trialBest = Math.min(trialBest, list.length);
+      }
+    } while (list.length > 0 && flips < maxFlips);
     work += flips;
-    if (list.length === 0 && empty === 0) successes++;
+    const solved = list.length === 0 && empty === 0;
+    if (solved) successes++;
     best = Math.min(best, trialBest + empty);
+    perTrial.push({ flips, solved, values: value });
   }
-  return { trials, successes, work, best, censored: false };
+  return { counts: { trials, successes, work, best, censored: false }, perTrial };
 }
 
 describe("walkTrials against a plain transcription", () => {
   it("draws and flips exactly as documented: uniform 3-SAT, mixed clause lengths, repeats, tautologies, empty clauses", () => {
     const rng = new Rng(deriveSeed("walk-test", "reference"));
-    const formulas: Array<[Cnf, number]> = [
-      [planted3Sat(rng, 14, 60), 3 * 14], // one clause length: one draw a step
-      [planted3Sat(rng, 20, 85), 3 * 20],
-      [messyFormula(rng, 9, 30), 40], // mixed lengths: two draws a step
-      [messyFormula(rng, 12, 25), 60],
-      [cnfFromClauses(6, [[1, 2, 2], [-1, 3], [], [4, -4, 5], [-2, -3, -5, 6], [-6]]), 20],
+    const formulas: Array<[Cnf, number, number | undefined]> = [
+      [planted3Sat(rng, 14, 60), 3 * 14, undefined], // one clause length: one draw a step
+      [planted3Sat(rng, 20, 85), 3 * 20, undefined],
+      [messyFormula(rng, 9, 30), 40, undefined], // mixed lengths: two draws a step
+      [messyFormula(rng, 12, 25), 60, undefined],
+      [cnfFromClauses(6, [[1, 2, 2], [-1, 3], [], [4, -4, 5], [-2, -3, -5, 6], [-6]]), 20, undefined],
+      [planted3Sat(rng, 20, 85), 40 * 20, 3 * 20], // restarts every 3n flips within a cap of 40n
+      [messyFormula(rng, 10, 28), 400, 25],
     ];
     let successes = 0;
-    formulas.forEach(([formula, maxFlips], f) => {
-      const expected = referenceWalk(formula, 150, `reference-${f}`, maxFlips);
-      expect(walkTrials(formula, { trials: 150, maxFlips, seed: `reference-${f}`, stop: null }), `formula ${f}`).toEqual(expected);
-      expect(expected.work, `formula ${f}`).toBeGreaterThan(0);
-      successes += expected.successes;
+    formulas.forEach(([formula, maxFlips, restartFlips], f) => {
+      const { counts, perTrial } = referenceWalk(formula, 150, `reference-${f}`, maxFlips, restartFlips);
+      const r = walkTrials(formula, { trials: 150, maxFlips, restartFlips, seed: `reference-${f}`, stop: null });
+      expect(r, `formula ${f}`).toMatchObject(counts);
+      expect([...r.runLengths.flips], `formula ${f}`).toEqual(perTrial.map((p) => p.flips));
+      expect([...r.runLengths.solved], `formula ${f}`).toEqual(perTrial.map((p) => (p.solved ? 1 : 0)));
+      expect(r.runLengths.cap).toBe(maxFlips);
+      expect(counts.work, `formula ${f}`).toBeGreaterThan(0);
+      // A restart really happens: some trial runs past its first start's flips.
+      if (restartFlips !== undefined) expect(perTrial.some((p) => p.flips > restartFlips), `formula ${f}`).toBe(true);
+      successes += counts.successes;
     });
-    // Both draw paths and both outcomes are covered.
-    expect(formulas.map(([formula]) => compileCnf(formula).clauseLength > 0)).toEqual([true, true, false, false, false]);
+    // Both draw paths, restarts and both outcomes are covered.
+    expect(formulas.map(([formula]) => compileCnf(formula).clauseLength > 0)).toEqual([true, true, false, false, false, true, false]);
     expect(successes).toBeGreaterThan(0);
-    expect(successes).toBeLessThan(5 * 150);
+    expect(successes).toBeLessThan(7 * 150);
+  });
+});
+
+/** The clauses of a DIMACS file read plainly from its text: integer lines split at 0; c, p and SATLIB's % lines skipped. */
+function plainClauses(text: string): number[][] {
+  const clauses: number[][] = [];
+  let current: number[] = [];
+  for (const line of text.split("\n")) {
+    const t = line.trim();
+    if (t === "" || t.startsWith("c") || t.startsWith("p")) continue;
+    if (t.startsWith("%")) break;
+    for (const word of t.split(/\s+/)) {
+      const lit = Number(word);
+      if (lit === 0) {
+        clauses.push(current);
+        current = [];
+      } else current.push(lit);
+    }
+  }
+  return clauses;
+}
+
+/** True when the assignment (values[v] = 1: variable v + 1 true) satisfies every clause. */
+function satisfiesAll(clauses: number[][], values: number[]): boolean {
+  return clauses.every((clause) => clause.some((lit) => (lit > 0 ? values[lit - 1] === 1 : values[-lit - 1] === 0)));
+}
+
+if (!HAVE_SATLIB) console.warn(`walk SATLIB replay checks skipped: ${SATLIB_DIR} not found`);
+
+describe.skipIf(!HAVE_SATLIB)("the walk's recorded flips to solution on SATLIB files (Hoos & Stützle, SAT 2000)", () => {
+  // SATLIB states every uf20-91 and uf50-218 file satisfiable and every uuf50-218 file unsatisfiable.
+  const files = (folder: string, count: number): Array<[string, string]> =>
+    readdirSync(join(SATLIB_DIR, folder)).filter((f) => f.endsWith(".cnf")).sort().slice(0, count)
+      .map((name) => [name, readFileSync(join(SATLIB_DIR, folder, name), "utf8")]);
+
+  it("uf20-91, 3n flips a trial: every trial replays to its recorded count; solved trials end on a model, censored ones never", () => {
+    let solvedTrials = 0;
+    let censoredTrials = 0;
+    for (const [name, text] of files("uf20-91", 5)) {
+      const cnf = parseDimacs(text, name);
+      const clauses = plainClauses(text);
+      expect(clauses.length).toBe(91);
+      const cap = 3 * cnf.variables;
+      const r = walkTrials(cnf, { trials: 200, maxFlips: cap, seed: name, stop: null });
+      const steps = stepsToSolution(r.runLengths);
+      expect(r.work).toBe(r.runLengths.flips.reduce((a, b) => a + b, 0));
+      expect(r.successes).toBe(steps.filter((s) => s >= 0).length);
+      for (let t = 0; t < 200; t++) {
+        const flips = r.runLengths.flips[t];
+        // The plain transcription, replaying trial t alone with the same seed and cap.
+        const replay = referenceWalk(cnf, 1, name, cap, cap, t).perTrial[0];
+        expect(replay.flips, `${name} trial ${t}`).toBe(flips);
+        expect(satisfiesAll(clauses, replay.values), `${name} trial ${t}`).toBe(steps[t] >= 0);
+        // The fast loop alone on trial t, and one flip short of the recorded count: not yet solved.
+        expect(walkTrials(cnf, { trials: 1, firstTrial: t, maxFlips: cap, seed: name, stop: null }).runLengths.flips[0]).toBe(flips);
+        if (steps[t] >= 0) {
+          solvedTrials++;
+          if (flips > 0) expect(walkTrials(cnf, { trials: 1, firstTrial: t, maxFlips: flips - 1, seed: name, stop: null }).successes).toBe(0);
+        } else {
+          censoredTrials++;
+          expect(flips).toBe(cap);
+        }
+      }
+    }
+    // Both kinds occur, or one of the checks above would be vacuous.
+    expect(solvedTrials).toBeGreaterThan(20);
+    expect(censoredTrials).toBeGreaterThan(20);
+  });
+
+  it("uf50-218, the restarting walk (3n flips a start, cap 2·10^5): replays agree and solved trials end on a model", () => {
+    let solvedTrials = 0;
+    for (const [name, text] of files("uf50-218", 3)) {
+      const cnf = parseDimacs(text, name);
+      const clauses = plainClauses(text);
+      const cap = 200_000;
+      const r = walkTrials(cnf, { trials: 4, maxFlips: cap, restartFlips: 3 * cnf.variables, seed: name, stop: null });
+      const { perTrial } = referenceWalk(cnf, 4, name, cap, 3 * cnf.variables);
+      expect([...r.runLengths.flips], name).toEqual(perTrial.map((p) => p.flips));
+      perTrial.forEach((p, t) => {
+        expect(satisfiesAll(clauses, p.values), `${name} trial ${t}`).toBe(r.runLengths.solved[t] === 1);
+        if (r.runLengths.solved[t] === 0) expect(p.flips).toBe(cap);
+      });
+      solvedTrials += r.successes;
+    }
+    expect(solvedTrials).toBeGreaterThan(6);
+  });
+
+  it("uuf50-218: no trial is ever reported solved; every one runs to its cap", () => {
+    for (const [name, text] of files("uuf50-218", 5)) {
+      const cnf = parseDimacs(text, name);
+      for (const [cap, restartFlips] of [[150, undefined], [3000, 150]] as const) {
+        const r = walkTrials(cnf, { trials: 50, maxFlips: cap, restartFlips, seed: name, stop: null });
+        expect(r.successes, name).toBe(0);
+        expect(stepsToSolution(r.runLengths), name).toEqual(new Array(50).fill(-1));
+        expect([...r.runLengths.flips], name).toEqual(new Array(50).fill(cap));
+      }
+    }
   });
 });
 
