@@ -76,6 +76,10 @@ describe("a cell limit stops generation counting end to end", () => {
     expect(truth).toHaveLength(1);
     expect(truth[0][col("status")]).toBe("censored");
     expect(truth[0][col("message")]).toMatch(new RegExp(`^${GENERATION_STOPPED}`));
+    // No exact method ran: the row says so instead of naming enumeration.
+    expect(truth[0][col("solver")]).toBe("none");
+    const instances = readCsv(join(dir, "instances.csv"));
+    expect(instances.rows[0][instances.header.indexOf("truth_method")]).toBe("none");
     const walk = rows.filter((row) => row[col("solver")] === "walk");
     expect(walk.every((row) => row[col("status")] === "censored")).toBe(true);
   });

@@ -129,7 +129,8 @@ async function runLocked(spec: StudySpec, options: RunOptions): Promise<RunSumma
       } catch (e) {
         if (e instanceof InputError) throw e; // an unmeetable filter (e.g. --satisfiable at a high density) ends the study: bad input
         const stopped = messageOf(e).startsWith(GENERATION_STOPPED);
-        return { ...base, status: stopped ? "censored" : "error", wall_ns: 0, message: messageOf(e), seed: "", meta: {}, optimum: null, degeneracy: null, assignments: 0, mean: null };
+        // No exact method ran (the instance was never drawn, or the method failed before answering).
+        return { ...base, status: stopped ? "censored" : "error", wall_ns: 0, message: messageOf(e), seed: "", meta: {}, optimum: null, degeneracy: null, assignments: 0, mean: null, truth_method: "none" };
       }
     });
   };

@@ -224,9 +224,9 @@ function prediction(base: { family: string; n: number; instance: number }, predi
 }
 
 // --- issue 16 (exact counting) ---
-/** Solver name of a truth cell in runs.csv: "exhaustive" for enumeration, else the counting method. */
+/** Solver name of a truth cell in runs.csv: "exhaustive" for enumeration, else the counting method ("none" if none ran). */
 function truthSolver(t: TruthRecord): string {
-  return t.truth_method === "count" || t.truth_method === "maxsat" ? t.truth_method : "exhaustive";
+  return t.truth_method === "count" || t.truth_method === "maxsat" || t.truth_method === "none" ? t.truth_method : "exhaustive";
 }
 
 /** Work of a truth cell: configurations evaluated by enumeration, decisions made by the counting methods. */
