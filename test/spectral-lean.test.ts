@@ -8,7 +8,7 @@
 import { describe, expect, it } from "vitest";
 import { fillCostVector } from "../harness/model/cost-vector.js";
 import type { Problem } from "../harness/model/problem.js";
-import { memoryRefusal, parseMemory, spectralMemoryNeeded } from "../harness/predict/numerics/memory.js";
+import { basisMemoryFor, memoryRefusal, parseMemory, spectralMemoryNeeded } from "../harness/predict/numerics/memory.js";
 import { buildSectorCost, diagonalOf, setAffine } from "../harness/predict/numerics/sector-cost.js";
 import { applyOperator, applyOperatorRange, diagonalAt, type TransverseFieldOperator } from "../harness/predict/numerics/transverse-field.js";
 import { applyBlocked, blockedPlan } from "../harness/predict/numerics/blocked-product.js";
@@ -141,6 +141,16 @@ describe("spectral memory", () => {
     expect(spectralMemoryNeeded(random3Sat(20, "m")) - overhead).toBe(49 * 2 ** 20);
     expect(spectralMemoryNeeded(sk(21, "m")) - overhead).toBe(28 * 2 ** 21);
   });
+  it("gives stored Lanczos vectors the allowance's share beyond the need, capped at 80% of the available memory", () => {
+    const problem = sk(20, "basis-memory"); // sector 2^19 × 28·2 bytes per sector amplitude
+    const need = spectralMemoryNeeded(problem);
+    const GiB = 2 ** 30;
+    expect(basisMemoryFor(problem, 10 * GiB, 1, 100 * GiB)).toBeCloseTo(10 * GiB - need, 0);
+    expect(basisMemoryFor(problem, 10 * GiB, 2, 100 * GiB)).toBeCloseTo(5 * GiB - need, 0);
+    expect(basisMemoryFor(problem, 10 * GiB, 1, 5 * GiB)).toBeCloseTo(4 * GiB - need, 0);
+    expect(basisMemoryFor(problem, need / 2, 1, 100 * GiB)).toBe(0);
+  });
+
   it("refuses with the memory n needs and the memory allowed", () => {
     const msg = memoryRefusal("spectral", random3Sat(20, "m"), 16 * 1024 ** 2);
     expect(msg).toBe("spectral: n = 20 needs 65.0 MiB (49 bytes per amplitude × 2^20), but --spectral-memory allows 16.0 MiB");

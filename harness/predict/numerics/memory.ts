@@ -89,11 +89,17 @@ export function targetMemoryNeeded(target: CellSizeTarget, n: number): number {
 
 /**
  * Bytes of an allowance a solve may spend on stored Lanczos vectors beyond what the instance needs at least, when
- * `sharers` such solves may run at once (study cells: one per core, the pool's default; a command: 1).
+ * `sharers` such solves may run at once (study cells: one per core, the pool's default; a command: 1). Never more
+ * than 80% of the memory the system reports available now (its share of it), so optional vectors never push the
+ * machine into swapping or the out-of-memory killer when something else holds memory.
  */
-export function basisMemoryFor(problem: Problem, allowed: number, sharers: number): number {
-  return Math.max(0, allowed / Math.max(1, sharers) - spectralMemoryNeeded(problem));
+export function basisMemoryFor(problem: Problem, allowed: number, sharers: number, available = os.freemem()): number {
+  const share = Math.min(allowed, BASIS_SHARE_OF_AVAILABLE * available) / Math.max(1, sharers);
+  return Math.max(0, share - spectralMemoryNeeded(problem));
 }
+
+/** Share of the available memory that stored Lanczos vectors may take at most (common practice: leave headroom). */
+const BASIS_SHARE_OF_AVAILABLE = 0.8;
 
 /** The allowance a cell reads from the resolved method options: `spectral-memory` in bytes, or this machine's default. */
 export function allowedMemory(options: MethodOptions): number {
