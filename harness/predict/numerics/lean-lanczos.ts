@@ -281,12 +281,7 @@ function step(
   ctx.products++;
   const as = a * sigma;
   const sums = ctx.sums;
-  if (ctx.team !== null) ctx.team.update(w, u, as, locked, sums);
-  else {
-    sums[0] = 0;
-    sums[1] = 0;
-    updateRange(w, u, as, locked, 0, w.length, sums);
-  }
+  update(ctx, w, u, as, locked, sums);
   const nn = sums[0];
   const c = sums[1];
   if (locked !== null) combine(ctx, locked, w, -c, null, 0);
@@ -397,6 +392,17 @@ function ritzVectors(
   }
   if (k - 1 >= count) pool.give(u);
   if (k - 2 >= count) pool.give(uprev);
+}
+
+/** w −= a·u; out = [‖w‖², lockedᵀw] (see vector-ops.ts), on the team's threads when there is one. */
+function update(ctx: Context, w: Float64Array, u: Float64Array, a: number, locked: Float64Array | null, out: Float64Array): void {
+  if (ctx.team !== null) {
+    ctx.team.update(w, u, a, locked, out);
+    return;
+  }
+  out[0] = 0;
+  out[1] = 0;
+  updateRange(w, u, a, locked, 0, w.length, out);
 }
 
 /** y0 += c0·x (and y1 += c1·x), on the team's threads when there is one. */

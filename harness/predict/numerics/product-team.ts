@@ -9,7 +9,7 @@
  * use; their contents are read at each product, so a level table rewritten between solves is seen.
  */
 import { MessageChannel, Worker } from "node:worker_threads";
-import { applyOperatorRange, type TransverseFieldOperator } from "./transverse-field.js";
+import { applyOperator, applyOperatorRange, type TransverseFieldOperator } from "./transverse-field.js";
 import { blockedKernel, productPlan } from "./blocked-product.js";
 import { combineRange, updateRange } from "./vector-ops.js";
 
@@ -147,12 +147,7 @@ export class ProductTeam {
   apply(op: TransverseFieldOperator, v: Float64Array, sigma: number, vprev: Float64Array, gamma: number, w: Float64Array): number {
     const dim = op.dim;
     const plan = productPlan(op);
-    if (this.threads === 1 || dim < TEAM_MIN_DIM) {
-      if (plan === null) return applyOperatorRange(op, v, sigma, vprev, gamma, w, 0, dim);
-      const kernel = blockedKernel();
-      kernel.passA(op, plan, v, sigma, vprev, gamma, w, 0, plan.blocks);
-      return kernel.passB(op, plan, v, sigma, w, 0, plan.groups);
-    }
+    if (this.threads === 1 || dim < TEAM_MIN_DIM) return applyOperator(op, v, sigma, vprev, gamma, w);
     const { ctrl, params } = this;
     const d = op.diagonal;
     ctrl[ID_V] = this.idOf(v);
@@ -232,10 +227,7 @@ export class ProductTeam {
     const seq = ++this.seq;
     Atomics.store(ctrl, SEQ, seq);
     Atomics.notify(ctrl, SEQ);
-    this.second = 0;
-    let total = 0;
-    const mine = own(0, teamShare(count, unit, 1, this.threads));
-    total += mine;
+    let total = own(0, teamShare(count, unit, 1, this.threads));
     let second = 0;
     for (let h = 1; h < this.threads; h++) {
       for (;;) {
