@@ -8,6 +8,7 @@
 import { describe, expect, it } from "vitest";
 import { applyBlocked, blockedPlan } from "../harness/predict/numerics/blocked-product.js";
 import { ProductTeam, sharedFloat64, sharedUint16, sharedUint8 } from "../harness/predict/numerics/product-team.js";
+import { sweepRange } from "../harness/predict/numerics/vector-ops.js";
 import { diagonalAt, type Diagonal, type TransverseFieldOperator } from "../harness/predict/numerics/transverse-field.js";
 import { Rng } from "../harness/random.js";
 
@@ -117,6 +118,44 @@ describe("blocked transverse-field product against the definition", () => {
         const [err, alphaErr] = compare(op, v, prev, w, team.apply(op, v, 1.3, prev, 0.4, w));
         expect(err).toBeLessThan(1e-12);
         expect(alphaErr).toBeLessThan(1e-12);
+      }
+    } finally {
+      team.close();
+    }
+  });
+
+  it("the team's Ritz sweep (two threads) equals Σ_j c_j·x_j summed plainly, and a single thread bit for bit", () => {
+    // Outside reference: the linear combination written out directly (one vector at a time, in increasing j).
+    const dim = 2 ** 17 + 24; // a tail shorter than a tile, and shares not a multiple of the tile
+    const rng = new Rng("sweep-vectors");
+    const xs = Array.from({ length: 11 }, () => randomVector(dim, rng)); // two groups of four and a remainder of three
+    const c0 = Float64Array.from({ length: 11 }, () => rng.nextDouble() - 0.5);
+    const c1 = Float64Array.from({ length: 11 }, () => rng.nextDouble() - 0.5);
+    const team = new ProductTeam(2);
+    try {
+      for (const count of [11, 4, 1]) {
+        const y0 = sharedFloat64(dim).fill(7); // overwritten, not added to
+        const y1 = sharedFloat64(dim).fill(7);
+        team.sweep(xs, count, c0, y0, c1, y1);
+        const one0 = new Float64Array(dim);
+        const one1 = new Float64Array(dim);
+        sweepRange(xs, count, c0, one0, c1, one1, 0, dim);
+        const only0 = sharedFloat64(dim);
+        team.sweep(xs, count, c0, only0, null, null);
+        let err = 0;
+        let split = 0;
+        for (let z = 0; z < dim; z++) {
+          let r0 = 0;
+          let r1 = 0;
+          for (let j = 0; j < count; j++) {
+            r0 += c0[j] * xs[j][z];
+            r1 += c1[j] * xs[j][z];
+          }
+          err = Math.max(err, Math.abs(y0[z] - r0), Math.abs(y1[z] - r1), Math.abs(only0[z] - r0));
+          if (y0[z] !== one0[z] || y1[z] !== one1[z] || only0[z] !== one0[z]) split++;
+        }
+        expect(err).toBeLessThan(1e-14);
+        expect(split).toBe(0);
       }
     } finally {
       team.close();

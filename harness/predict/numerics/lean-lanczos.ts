@@ -18,7 +18,7 @@ import { Rng } from "../../random.js";
 import { TridiagonalScratch, tridiagonalEigenvalue, tridiagonalEigenvector } from "../lanczos.js";
 import { applyOperator, type TransverseFieldOperator } from "./transverse-field.js";
 import { type ProductTeam, sharedFloat64 } from "./product-team.js";
-import { combineRange, updateRange } from "./vector-ops.js";
+import { combineRange, sweepRange, updateRange } from "./vector-ops.js";
 
 /** Vectors of the working dimension a solve holds at its peak. */
 export const LEAN_VECTORS = 6;
@@ -128,10 +128,14 @@ export function leanLowestEigenpairs(op: TransverseFieldOperator, options: LeanL
     products: 0,
     team: options.team ?? null,
   };
-  // 1. Random start vector, seeded.
+  // 1. Start vector, seeded: the uniform superposition plus a random vector of the same expected norm
+  //    ((U − ½)·√12 has variance 1). The uniform part is the ground state of the field term alone, and the operators
+  //    here start from it (at b = 0, s = 0), so it carries most of ψ0 wherever the field dominates; the random part
+  //    keeps a component along every eigenvector, so no symmetry of the instance can hide one from the Krylov space.
+  //    Measured on SK n = 24 (sector), (b, η) = (0.7, 0.5): E0 settles after 53 products instead of 65.
   const rng = new Rng(options.seed);
   const start = pool.take();
-  for (let z = 0; z < dim; z++) start[z] = rng.nextDouble() - 0.5;
+  for (let z = 0; z < dim; z++) start[z] = 1 + (rng.nextDouble() - 0.5) * Math.sqrt(12);
   normalise(start);
   // 2. Ground state to half the tolerance (its leftover residual enters E1's), and a start for E1.
   const first = converge(ctx, start, null, 0.25 * tolerance, 0.5 * tolerance, true);
@@ -349,15 +353,8 @@ function firstPass(
 }
 
 /**
- * Tile of the blocked linear combination: two 2^14-double accumulators (256 KiB) stay in the 2 MiB L2 cache while
- * every stored vector streams 128 KiB through (short tiles measured slower with many stored vectors: each vector's
- * segment is then too short for the prefetchers).
- */
-const COMBINE_TILE = 16384;
-
-/**
- * y0 = Σ_j s0_j v_j and y1 = Σ_j s1_j v_j over the k Lanczos vectors: the stored ones in one blocked sweep, the rest
- * regenerated from the last two stored vectors with {@link step}.
+ * y0 = Σ_j s0_j v_j and y1 = Σ_j s1_j v_j over the k Lanczos vectors: the stored ones in one sweep (on the team's
+ * threads when there is one), the rest regenerated from the last two stored vectors with {@link step}.
  */
 function ritzVectors(
   ctx: Context,
@@ -368,16 +365,15 @@ function ritzVectors(
 ): void {
   const { stored, k } = basis;
   const { s0, s1, sigma, pool } = ctx;
-  const dim = y0.length;
   const count = Math.min(k, stored.length);
-  for (let t = 0; t < dim; t += COMBINE_TILE) {
-    const end = Math.min(dim, t + COMBINE_TILE);
-    y0.fill(0, t, end);
-    if (y1 !== null) y1.fill(0, t, end);
-    for (let j = 0; j < count; j++) {
-      combineRange(stored[j], y0, s0[j] * sigma[j], y1, y1 !== null ? s1[j] * sigma[j] : 0, t, end);
-    }
+  const c0 = new Float64Array(count);
+  const c1 = y1 !== null ? new Float64Array(count) : null;
+  for (let j = 0; j < count; j++) {
+    c0[j] = s0[j] * sigma[j];
+    if (c1 !== null) c1[j] = s1[j] * sigma[j];
   }
+  if (ctx.team !== null) ctx.team.sweep(stored, count, c0, y0, c1, y1);
+  else sweepRange(stored, count, c0, y0, c1, y1, 0, y0.length);
   if (k <= count) return;
   // Second pass over the tail: u_count … u_{k−1}.
   let uprev = stored[Math.max(0, count - 2)]; // with count = 1, step 0 ignores uprev (β_0 = 0)

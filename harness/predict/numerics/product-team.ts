@@ -11,7 +11,7 @@
 import { MessageChannel, Worker } from "node:worker_threads";
 import { applyOperator, applyOperatorRange, type TransverseFieldOperator } from "./transverse-field.js";
 import { blockedKernel, productPlan } from "./blocked-product.js";
-import { combineRange, updateRange } from "./vector-ops.js";
+import { combineRange, sweepRange, updateRange } from "./vector-ops.js";
 
 /** How long a new helper thread may take to load before the team gives up. */
 const START_TIMEOUT_MS = 30_000;
@@ -55,6 +55,8 @@ export const PHASE_GROUPS = 2;
 export const PHASE_UPDATE = 3;
 /** y0 += c0·x (and y1 += c1·x) over a share. */
 export const PHASE_COMBINE = 4;
+/** y0 = Σ_j c0_j·x_j (and y1) over a share, the vectors named in the team's list (vector-ops.ts, sweepRange). */
+export const PHASE_SWEEP = 5;
 /**
  * Float64 slots: sigma, gamma, field, scale, shift, cap, dim (the vector phases use sigma and gamma for their
  * coefficients), then one partial result per helper from 8, and a second one per helper after those.
@@ -81,7 +83,12 @@ export function sharedUint16(length: number): Uint16Array {
   return new Uint16Array(new SharedArrayBuffer(2 * length));
 }
 
-type Shared = Float64Array | Uint8Array | Uint16Array;
+/** An Int32Array in a SharedArrayBuffer. */
+export function sharedInt32(length: number): Int32Array {
+  return new Int32Array(new SharedArrayBuffer(4 * length));
+}
+
+type Shared = Float64Array | Uint8Array | Uint16Array | Int32Array;
 
 /** Start of thread `index`'s share of `count` items (index = threads gives the end), a multiple of `unit`. */
 export function teamShare(count: number, unit: number, index: number, threads: number): number {
@@ -137,7 +144,7 @@ export class ProductTeam {
     if (id === undefined) {
       id = this.nextId++;
       this.ids.set(buffer, id);
-      const kind = a instanceof Float64Array ? "f64" : a instanceof Uint8Array ? "u8" : "u16";
+      const kind = a instanceof Float64Array ? "f64" : a instanceof Uint8Array ? "u8" : a instanceof Int32Array ? "i32" : "u16";
       for (const p of this.ports) p.postMessage({ id, buffer, kind, offset: a.byteOffset, length: a.length });
     }
     return id;
@@ -211,6 +218,41 @@ export class ProductTeam {
     this.params[P_GAMMA] = c1;
     this.params[P_DIM] = dim;
     this.round(false, PHASE_COMBINE, (from, to) => (combineRange(x, y0, c0, y1, c1, from, to), 0), dim, 8);
+  }
+
+  /** The vectors of a sweep by id, and their coefficients (c0 then c1), grown as needed (see {@link sweep}). */
+  private listIds = sharedInt32(0);
+  private listCoefficients = sharedFloat64(0);
+
+  /**
+   * y0 = Σ_j c0[j]·xs[j] and, with y1, y1 = Σ_j c1[j]·xs[j] over the first `count` vectors and all amplitudes
+   * (y0, y1 overwritten): the Ritz vectors from stored Lanczos vectors, each thread sweeping its share of the
+   * amplitudes. The result does not depend on the number of threads (sweepRange sums each amplitude in one order).
+   */
+  sweep(xs: readonly Float64Array[], count: number, c0: Float64Array, y0: Float64Array, c1: Float64Array | null, y1: Float64Array | null): void {
+    const dim = y0.length;
+    if (this.threads === 1 || dim < TEAM_MIN_DIM) {
+      sweepRange(xs, count, c0, y0, c1, y1, 0, dim);
+      return;
+    }
+    if (this.listIds.length < count) {
+      this.listIds = sharedInt32(2 * count);
+      this.listCoefficients = sharedFloat64(4 * count);
+    }
+    const ids = this.listIds;
+    const coefficients = this.listCoefficients;
+    for (let j = 0; j < count; j++) {
+      ids[j] = this.idOf(xs[j]);
+      coefficients[j] = c0[j];
+      coefficients[count + j] = c1 !== null ? c1[j] : 0;
+    }
+    this.ctrl[ID_V] = this.idOf(ids);
+    this.ctrl[ID_PREV] = this.idOf(y0);
+    this.ctrl[ID_W] = y1 === null ? -1 : this.idOf(y1);
+    this.ctrl[ID_DIAG] = this.idOf(coefficients);
+    this.params[P_SIGMA] = count;
+    this.params[P_DIM] = dim;
+    this.round(false, PHASE_SWEEP, (from, to) => (sweepRange(xs, count, c0, y0, c1, y1, from, to), 0), dim, 8);
   }
 
   /** Sum of the helpers' second partial results in the last round, plus the caller's (see {@link update}). */

@@ -5,13 +5,13 @@
 import { type MessagePort, receiveMessageOnPort, workerData } from "node:worker_threads";
 import { applyOperatorRange, type TransverseFieldOperator } from "./transverse-field.js";
 import { blockedKernel, productPlan } from "./blocked-product.js";
-import { FAILED, PHASE_BLOCKS, PHASE_COMBINE, PHASE_FUSED, PHASE_UPDATE, READY, teamShare } from "./product-team.js";
-import { combineRange, updateRange } from "./vector-ops.js";
+import { FAILED, PHASE_BLOCKS, PHASE_COMBINE, PHASE_FUSED, PHASE_SWEEP, PHASE_UPDATE, READY, teamShare } from "./product-team.js";
+import { combineRange, sweepRange, updateRange } from "./vector-ops.js";
 
 const data = workerData as { ctrl: SharedArrayBuffer; params: SharedArrayBuffer; port: MessagePort; index: number; threads: number };
 const ctrl = new Int32Array(data.ctrl);
 const params = new Float64Array(data.params);
-const arrays: Array<Float64Array | Uint8Array | Uint16Array> = [];
+const arrays: Array<Float64Array | Uint8Array | Uint16Array | Int32Array> = [];
 const DONE = 8;
 const P_ALPHA = 8;
 
@@ -20,7 +20,11 @@ function receive(): void {
     const m = receiveMessageOnPort(data.port);
     if (m === undefined) return;
     const { id, buffer, kind, offset, length } = m.message as { id: number; buffer: SharedArrayBuffer; kind: string; offset: number; length: number };
-    arrays[id] = kind === "f64" ? new Float64Array(buffer, offset, length) : kind === "u8" ? new Uint8Array(buffer, offset, length) : new Uint16Array(buffer, offset, length);
+    arrays[id] =
+      kind === "f64" ? new Float64Array(buffer, offset, length)
+      : kind === "u8" ? new Uint8Array(buffer, offset, length)
+      : kind === "i32" ? new Int32Array(buffer, offset, length)
+      : new Uint16Array(buffer, offset, length);
   }
 }
 
@@ -35,7 +39,17 @@ function vectorPhase(phase: number, dim: number): void {
   const c = ctrl[4] >= 0 ? (arrays[ctrl[4]] as Float64Array) : null;
   partial[0] = 0;
   partial[1] = 0;
-  if (phase === PHASE_UPDATE) updateRange(a, b, params[0], c, from, to, partial);
+  if (phase === PHASE_SWEEP) {
+    // ctrl[2]: the list of vector ids, ctrl[5]: their coefficients (c0 then c1), params[0]: how many.
+    const count = params[0];
+    const ids = arrays[ctrl[2]] as Int32Array;
+    const coefficients = arrays[ctrl[5]] as Float64Array;
+    const xs: Float64Array[] = [];
+    for (let j = 0; j < count; j++) xs.push(arrays[ids[j]] as Float64Array);
+    const c0 = coefficients.subarray(0, count);
+    const c1 = c !== null ? coefficients.subarray(count, 2 * count) : null;
+    sweepRange(xs, count, c0, b, c1, c, from, to);
+  } else if (phase === PHASE_UPDATE) updateRange(a, b, params[0], c, from, to, partial);
   else combineRange(a, b, params[0], c, params[1], from, to);
   params[P_ALPHA + data.index] = partial[0];
   params[P_ALPHA + data.threads + data.index] = partial[1];
@@ -55,7 +69,7 @@ try {
     const dim = params[6];
     const flags = ctrl[7];
     const phase = flags >> 1;
-    if (phase === PHASE_UPDATE || phase === PHASE_COMBINE) {
+    if (phase === PHASE_UPDATE || phase === PHASE_COMBINE || phase === PHASE_SWEEP) {
       vectorPhase(phase, dim);
       Atomics.store(ctrl, DONE + data.index, seq);
       Atomics.notify(ctrl, DONE + data.index);
