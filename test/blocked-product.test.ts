@@ -124,8 +124,9 @@ describe("blocked transverse-field product against the definition", () => {
     }
   });
 
-  it("the team's Ritz sweep (two threads) equals Σ_j c_j·x_j summed plainly, and a single thread bit for bit", () => {
-    // Outside reference: the linear combination written out directly (one vector at a time, in increasing j).
+  it("the team's Ritz sweep (two threads) equals Σ_j c_j·x_j summed vector by vector, bit for bit", () => {
+    // Outside reference: the linear combination written out directly (one vector at a time, in increasing j), which
+    // is also what the regenerated tail of a Lanczos pass adds: so results do not depend on how many were stored.
     const dim = 2 ** 17 + 24; // a tail shorter than a tile, and shares not a multiple of the tile
     const rng = new Rng("sweep-vectors");
     const xs = Array.from({ length: 11 }, () => randomVector(dim, rng)); // two groups of four and a remainder of three
@@ -142,8 +143,7 @@ describe("blocked transverse-field product against the definition", () => {
         sweepRange(xs, count, c0, one0, c1, one1, 0, dim);
         const only0 = sharedFloat64(dim);
         team.sweep(xs, count, c0, only0, null, null);
-        let err = 0;
-        let split = 0;
+        let differ = 0;
         for (let z = 0; z < dim; z++) {
           let r0 = 0;
           let r1 = 0;
@@ -151,11 +151,9 @@ describe("blocked transverse-field product against the definition", () => {
             r0 += c0[j] * xs[j][z];
             r1 += c1[j] * xs[j][z];
           }
-          err = Math.max(err, Math.abs(y0[z] - r0), Math.abs(y1[z] - r1), Math.abs(only0[z] - r0));
-          if (y0[z] !== one0[z] || y1[z] !== one1[z] || only0[z] !== one0[z]) split++;
+          if (y0[z] !== r0 || y1[z] !== r1 || only0[z] !== r0 || one0[z] !== r0 || one1[z] !== r1) differ++;
         }
-        expect(err).toBeLessThan(1e-14);
-        expect(split).toBe(0);
+        expect(differ).toBe(0);
       }
     } finally {
       team.close();

@@ -111,7 +111,7 @@ describe("lean spectral path against the reference path (n ≤ 22)", () => {
 });
 
 describe("stored Lanczos vectors (memory beyond the lean minimum) change the work, not the result", () => {
-  it("SK n = 16 (sector) and 3-SAT n = 14: e0, e1 and the ground state agree with the lean minimum to 1e-12", () => {
+  it("SK n = 16 (sector) and 3-SAT n = 14: e0, e1 and the ground state equal the lean minimum's bit for bit", () => {
     for (const problem of [sk(16, "basis-a"), random3Sat(14, "basis-b")]) {
       const cost = buildSectorCost(problem);
       const op: TransverseFieldOperator = { dim: cost.dim, bits: cost.bits, mirror: cost.symmetric, field: 1 / cost.n, diagonal: diagonalOf(cost) };
@@ -121,11 +121,13 @@ describe("stored Lanczos vectors (memory beyond the lean minimum) change the wor
       const lean = solve(1);
       for (const kept of [7, basisVectorsFor(cost.dim, 1e9)]) {
         const r = solve(kept);
-        expect(Math.abs(r.e0 - lean.e0)).toBeLessThan(1e-12);
-        expect(Math.abs(r.e1 - lean.e1)).toBeLessThan(1e-12);
-        let diff = 0;
-        for (let z = 0; z < cost.dim; z++) diff = Math.max(diff, Math.abs(r.psi0[z] - lean.psi0[z]));
-        expect(diff).toBeLessThan(1e-9);
+        // Regenerated Lanczos vectors equal the stored ones bit for bit, and the Ritz sums add them in the same
+        // order either way (vector-ops.ts, sweepRange), so the memory allowance changes nothing in the result.
+        expect(r.e0).toBe(lean.e0);
+        expect(r.e1).toBe(lean.e1);
+        let differ = 0;
+        for (let z = 0; z < cost.dim; z++) if (r.psi0[z] !== lean.psi0[z]) differ++;
+        expect(differ).toBe(0);
         // Every stored vector saves one product of the second pass.
         expect(r.iterations).toBeLessThan(lean.iterations);
       }

@@ -51,8 +51,10 @@ export const SWEEP_TILE = 8192;
 /**
  * y0 = Σ_j c0[j]·x_j and, with y1, y1 = Σ_j c1[j]·x_j over the first `count` vectors, on [from, to) (y0 and y1
  * overwritten there): the Ritz vectors from stored Lanczos vectors. Per tile, four vectors at a time, so the
- * accumulators are loaded and stored once per four vectors instead of once per vector. Each amplitude's sum is
- * formed in the same order whatever the range, so a split between threads does not change the result.
+ * accumulators are loaded and stored once per four vectors instead of once per vector; the additions are still made
+ * one vector at a time in increasing j, so each amplitude's sum is the one {@link combineRange} gives vector by
+ * vector (bit for bit): the result depends neither on the split between threads nor on how many Lanczos vectors
+ * were stored and how many regenerated (lean-lanczos.ts), hence not on the memory allowance.
  */
 export function sweepRange(
   xs: readonly Float64Array[],
@@ -77,16 +79,23 @@ export function sweepRange(
   }
 }
 
-/** y += a0·x0 + a1·x1 + a2·x2 + a3·x3 on [from, to). */
+/** y += a0·x0, then += a1·x1, += a2·x2, += a3·x3 on [from, to) (in that order, as four combines would). */
 function accumulate4(
   x0: Float64Array, x1: Float64Array, x2: Float64Array, x3: Float64Array,
   a0: number, a1: number, a2: number, a3: number,
   y: Float64Array, from: number, to: number,
 ): void {
-  for (let z = from; z < to; z++) y[z] += a0 * x0[z] + a1 * x1[z] + a2 * x2[z] + a3 * x3[z];
+  for (let z = from; z < to; z++) {
+    let t = y[z];
+    t += a0 * x0[z];
+    t += a1 * x1[z];
+    t += a2 * x2[z];
+    t += a3 * x3[z];
+    y[z] = t;
+  }
 }
 
-/** y0 += Σ_{i<4} c0[j+i]·x_i and y1 += Σ_{i<4} c1[j+i]·x_i on [from, to), reading each x once. */
+/** y0 += c0[j+i]·x_i and y1 += c1[j+i]·x_i for i = 0..3 in turn on [from, to), reading each x once. */
 function accumulate4Pair(
   x0: Float64Array, x1: Float64Array, x2: Float64Array, x3: Float64Array,
   c0: Float64Array, c1: Float64Array, j: number,
@@ -99,7 +108,17 @@ function accumulate4Pair(
     const q = x1[z];
     const r = x2[z];
     const s = x3[z];
-    y0[z] += a0 * p + a1 * q + a2 * r + a3 * s;
-    y1[z] += b0 * p + b1 * q + b2 * r + b3 * s;
+    let t = y0[z];
+    let u = y1[z];
+    t += a0 * p;
+    u += b0 * p;
+    t += a1 * q;
+    u += b1 * q;
+    t += a2 * r;
+    u += b2 * r;
+    t += a3 * s;
+    u += b3 * s;
+    y0[z] = t;
+    y1[z] = u;
   }
 }
