@@ -111,6 +111,8 @@ interface TermTables {
   /** The other spins of term memberOf[k], in the term's order: partners[partnerStart[k] .. partnerStart[k+1]). */
   readonly partnerStart: Int32Array;
   readonly partners: Int32Array;
+  /** 2 when every term has exactly three spins (then partnerStart[k] = 2k), else 0. */
+  readonly partnersPerTerm: number;
 }
 
 /** {@link TermTables} of a model, built once per model. */
@@ -152,9 +154,11 @@ function termTables(model: Ising): TermTables {
         for (let q = start[t]; q < start[t + 1]; q++) if (spins[q] !== i) partners[at++] = spins[q];
       }
     }
+    let partnersPerTerm = spins.length > 0 ? 2 : 0;
+    for (let t = 0; t < J.length; t++) if (start[t + 1] - start[t] !== 3) partnersPerTerm = 0;
     shared.terms = {
       termStart: Int32Array.from(start), termSpins: Int32Array.from(spins), termJ: Float64Array.from(J), memberStart, memberOf,
-      memberJ, partnerStart, partners,
+      memberJ, partnerStart, partners, partnersPerTerm,
     };
     SHARED_TABLES.set(model, shared);
   }
@@ -294,7 +298,15 @@ export class DenseEngine implements Engine {
       s[i] = -si;
       const c = -2 * si;
       const row = i * n;
-      for (let j = 0; j < n; j++) h[j] += c * J[row + j];
+      let j = 0;
+      for (; j + 4 <= n; j += 4) {
+        const r = row + j;
+        h[j] += c * J[r];
+        h[j + 1] += c * J[r + 1];
+        h[j + 2] += c * J[r + 2];
+        h[j + 3] += c * J[r + 3];
+      }
+      for (; j < n; j++) h[j] += c * J[row + j];
       e += d;
       if (e < best) {
         best = e;
@@ -342,12 +354,15 @@ export class TermEngine implements Engine {
   private readonly sum: Float64Array;
   private readonly spin: Float64Array;
   private readonly bits: Uint8Array;
+  /** 2 when every term has three spins (partners of slot k at 2k, 2k + 1), else 0. */
+  private readonly partnersPerTerm: number;
 
   constructor(model: Ising) {
     const n = model.spins;
     this.n = n;
     this.model = model;
     const tables = termTables(model);
+    this.partnersPerTerm = tables.partnersPerTerm;
     this.termStart = tables.termStart;
     this.termSpins = tables.termSpins;
     this.termJ = tables.termJ;
@@ -413,6 +428,20 @@ export class TermEngine implements Engine {
   private apply(i: number): void {
     const { memberStart, memberJ, partnerStart, partners, spin, sum } = this;
     const si = spin[i];
+    if (this.partnersPerTerm === 2) {
+      // Every term has three spins (p-spin, p = 3): partners of slot k at 2k, 2k + 1, without partnerStart and
+      // the inner loops; the same products ((si·s_a)·s_b) and updates in the same order.
+      for (let k = memberStart[i], end = memberStart[i + 1]; k < end; k++) {
+        const a = partners[2 * k];
+        const b = partners[2 * k + 1];
+        const w2 = 2 * memberJ[k] * (si * spin[a] * spin[b]);
+        sum[a] -= w2;
+        sum[b] -= w2;
+      }
+      spin[i] = -si;
+      sum[i] = -sum[i];
+      return;
+    }
     // Each term of i: its spin product p = ±1 (from the spins, before i flips), then g_j −= 2·J_t·p for its other
     // spins in the term's order: the same updates in the same order as before. Tables laid out per member slot
     // read J and the partners in a row, and no per-term state is kept, so a replica is just its spins and sums
