@@ -318,13 +318,15 @@ function threeSatTrials(f: CompiledCnf, table: Float64Array, rule: BreakwalkRule
   const { clauseLiterals, occurrenceStart, occurrences } = f;
   const empty = f.emptyClauses;
   const padded = 2 ** Math.ceil(Math.log2(Math.max(n, 2)));
-  const occStartAt = padded;
-  const occAt = occStartAt + 2 * n + 1;
-  const recordAt = occAt + occurrences.length;
-  const violatedAt = recordAt + 5 * m;
-  const removedAt = violatedAt + m + 2;
-  const size = removedAt + f.maxOccurrences + 1;
+  const size = padded + 2 * n + 1 + occurrences.length + 6 * m + 2 + f.maxOccurrences + 1;
   if (padded * 4 > 2 ** 31 || size > 2 ** 31 - 1) throw new RangeError(`breakwalk: a 3-SAT formula with ${n} variables and ${m} clauses does not fit the packed layout`);
+  // `| 0` marks the offsets as int32 (sums of lengths are typed as doubles otherwise, and every index computed from
+  // them went through a checked double-to-integer conversion: measured 1.05x on n = 200 and uf50-218).
+  const occStartAt = padded | 0;
+  const occAt = (occStartAt + 2 * n + 1) | 0;
+  const recordAt = (occAt + occurrences.length) | 0;
+  const violatedAt = (recordAt + 5 * m) | 0;
+  const removedAt = (violatedAt + m + 2) | 0;
   const mem = new Int32Array(size);
   for (let l = 0; l <= 2 * n; l++) mem[occStartAt + l] = occAt + occurrenceStart[l];
   for (let i = 0; i < occurrences.length; i++) mem[occAt + i] = recordAt + 5 * occurrences[i];
@@ -424,8 +426,8 @@ function threeSatTrials(f: CompiledCnf, table: Float64Array, rule: BreakwalkRule
           low = Math.imul(x, unsat) >>> 0;
         }
       }
-      const entry = smallList ? Math.floor((x * unsat) / 4294967296) : highWord(x, unsat);
-      const record = mem[violatedAt + 1 + entry];
+      const entry = smallList ? ((x * unsat) / 4294967296) | 0 : highWord(x, unsat) | 0;
+      const record = mem[(violatedAt + 1 + entry) | 0];
       const a = mem[record + 2];
       const b = mem[record + 3];
       const d = mem[record + 4];
@@ -456,11 +458,11 @@ function threeSatTrials(f: CompiledCnf, table: Float64Array, rule: BreakwalkRule
         const word = mem[w];
         const count = word & 3;
         mem[w] = (word + 1) ^ vx;
-        const wasZero = (count - 1) >>> 31;
-        mem[word >>> 2] -= (((count ^ 1) - 1) >>> 31) << 1; // count 1 → 2: its critical variable loses a break
-        gained += wasZero; // count 0 → 1: v alone satisfies it now
+        const wasZero = ((count - 1) >>> 31) | 0;
+        mem[word >>> 2] -= ((((count ^ 1) - 1) >>> 31) | 0) << 1; // count 1 → 2: its critical variable loses a break
+        gained = (gained + wasZero) | 0; // count 0 → 1: v alone satisfies it now
         mem[nRemoved] = w;
-        nRemoved += wasZero;
+        nRemoved = (nRemoved + wasZero) | 0;
       }
       for (let q = removedAt; q < nRemoved; q++) {
         const w = mem[q];
@@ -473,16 +475,16 @@ function threeSatTrials(f: CompiledCnf, table: Float64Array, rule: BreakwalkRule
       let lost = 0;
       for (let i = mem[down], end = mem[down + 1]; i < end; i++) {
         const w = mem[i];
-        const word = (mem[w] ^ vx) - 1;
+        const word = ((mem[w] ^ vx) - 1) | 0;
         mem[w] = word;
         const count = word & 3;
-        const isZero = (count - 1) >>> 31;
-        lost += isZero; // count 1 → 0: v was its critical variable
-        mem[word >>> 2] += (((count ^ 1) - 1) >>> 31) << 1; // count 2 → 1: the remaining true variable is critical
-        const slot = violatedAt + unsat + 1;
+        const isZero = ((count - 1) >>> 31) | 0;
+        lost = (lost + isZero) | 0; // count 1 → 0: v was its critical variable
+        mem[word >>> 2] += ((((count ^ 1) - 1) >>> 31) | 0) << 1; // count 2 → 1: the remaining true variable is critical
+        const slot = (violatedAt + unsat + 1) | 0;
         mem[slot] = w;
         mem[w + 1] = slot;
-        unsat += isZero;
+        unsat = (unsat + isZero) | 0;
       }
       mem[v] = entryV + ((gained - lost) << 1) + now - (entryV & 1);
       flips++;
