@@ -63,7 +63,9 @@ export function energyFromTerms(model: Ising, s: Float64Array): number {
  * annealing at equal work, node 20, loaded 2-core test machine): SK n = 64, 8 replicas × 500 rounds 0.83 → 0.89 of the
  * annealer's rate, 16 × 100 0.76 → 0.83. Later (issue 12): engine kind, dense fields and the start energy decided
  * once per model, cheaper starts, and term tables per member slot with no per-term replica state (3-spin n = 32:
- * both solvers about 1.3× faster); test/bench/baselines.bench.ts gives the figures and what bounds the ratio.
+ * both solvers about 1.3× faster); then the dense field update unrolled by four (SK n = 64: 1.27×) and, when every
+ * term has three spins, the term engine's flip and start without inner loops (3-spin n = 32: 1.7–2× a flip, 106 →
+ * 36 µs a start); test/bench/baselines.bench.ts gives the figures and what bounds the ratio.
  */
 const SHARED_TABLES = new WeakMap<Ising, { dense?: DenseTables; terms?: TermTables }>();
 
@@ -298,6 +300,9 @@ export class DenseEngine implements Engine {
       s[i] = -si;
       const c = -2 * si;
       const row = i * n;
+      // Four fields a step: each still gets c·J_ij added once, so the same values; fewer loop tests and index
+      // checks. Measured on SK n = 64 (interleaved A/B, per CPU-second, same results): 1.27× the attempt rate of
+      // annealing and tempering alike (a flip is most of their time: about 80 ns against 6 ns an attempt).
       let j = 0;
       for (; j + 4 <= n; j += 4) {
         const r = row + j;
@@ -453,7 +458,8 @@ export class TermEngine implements Engine {
     const si = spin[i];
     if (this.partnersPerTerm === 2) {
       // Every term has three spins (p-spin, p = 3): partners of slot k at 2k, 2k + 1, without partnerStart and
-      // the inner loops; the same products ((si·s_a)·s_b) and updates in the same order.
+      // the inner loops; the same products ((si·s_a)·s_b) and updates in the same order. Measured on 3-spin n = 32
+      // (interleaved A/B, per CPU-second, same results): 1.7–2.1× the attempt rate of annealing and tempering.
       for (let k = memberStart[i], end = memberStart[i + 1]; k < end; k++) {
         const a = partners[2 * k];
         const b = partners[2 * k + 1];

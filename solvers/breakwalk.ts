@@ -19,8 +19,10 @@
  * updated incrementally by a flip in O(occurrences of the flipped variable); f comes from a table indexed by
  * break. For 3-SAT the authors' code computes breaks on the fly instead (scanning the picked clause's variables'
  * occurrences); we measured both on random 3-SAT n = 200 (same draws, interleaved runs on the loaded 2-core test
- * machine): cached 6.6–7.7e6, on the fly 5.0–6.0e6 flips per CPU-second, so every k uses the cached counts. Nothing is allocated per flip. Trial t draws only from trialRng(seed, t)
- * (./trial-seeds.ts).
+ * machine): cached 6.6–7.7e6, on the fly 5.0–6.0e6 flips per CPU-second, so every k uses the cached counts.
+ * Clauses of three literals run in a copy of the trial loop written for k = 3 ({@link threeSatTrials}: the same
+ * draws, about 1.3× the general loop's flips per CPU-second). Nothing is allocated per flip. Trial t draws only
+ * from trialRng(seed, t) (./trial-seeds.ts).
  */
 import type { Cnf } from "../harness/model/cnf.js";
 import { stepsToSolution, stopRequested, type StopFlag, type TrialsResult, type TrialsSolver } from "./types.js";
@@ -294,9 +296,14 @@ export function breakwalkCompiled(f: CompiledCnf, options: BreakwalkOptions): Br
  *   each iteration), with the variable's value bit folded into its break entry (2·break + value): 1.16× and 1.14×
  *   over the general loop together with the first item;
  * - per clause one record of five words (packed word, slot in the violated list, the three variables), so that
- *   a clause's word and slot share a cache line: a further 1.04×, 1.05×.
+ *   a clause's word and slot share a cache line: a further 1.04×, 1.05×;
+ * - the layout's offsets marked int32 with `| 0`: V8 types sums of array lengths as doubles, and every index
+ *   computed from them went through a checked double-to-integer conversion (seen in the optimised code with
+ *   `perf`): a further 1.16×, 1.15×.
  * Tried without a gain (within ±2 %): branches instead of the branch-free list updates, a branch-free choice of the
- * literal, `| 0` on every index sum, polling the stop flag in chunks of flips.
+ * literal, `| 0` on the loop's own sums while the offsets were still doubles, polling the stop flag in chunks of
+ * flips. All together, against the general loop before this copy (bench `baselines`, same machine, same day):
+ * random 3-SAT n = 200 7.0–7.6e6 → 9.0–9.7e6 flips per CPU-second, uf50-218 6.5–7.4e6 → 8.7–10e6.
  *
  * Layout of `mem`:
  * - [0, P): per variable 2·break + value, P = n rounded up to a power of two (an XOR of variable indices read with

@@ -65,7 +65,17 @@ export async function run(): Promise<void> {
   const walk200 = rate(() => walkCompiled(f200, { trials: Math.round(3000 * scale), seed: "bench", stop: null }));
   const walk200long = rate(() => walkCompiled(f200, { trials: 20, maxFlips: Math.round(1e5 * scale), seed: "bench", stop: null }));
   pair("random 3-SAT n=200 m=840", "flips", bw200, walk200, "breakwalk", "walk (3n flips/trial)", 0.8);
+  alternatedLine(
+    (t) => breakwalkCompiled(f200, { trials: 1, firstTrial: t, cap: 1e5, seed: "bench", stop: null }),
+    (t) => walkCompiled(f200, { trials: 167, firstTrial: 167 * t, seed: "bench", stop: null }),
+    1.5 * scale,
+  );
   pair("random 3-SAT n=200 m=840", "flips", bw200, walk200long, "breakwalk", "walk (1e5 flips/trial)", 0.8);
+  alternatedLine(
+    (t) => breakwalkCompiled(f200, { trials: 1, firstTrial: t, cap: 1e5, seed: "bench", stop: null }),
+    (t) => walkCompiled(f200, { trials: 1, firstTrial: t, maxFlips: 1e5, seed: "bench", stop: null }),
+    1.5 * scale,
+  );
 
   const here = path.dirname(fileURLToPath(import.meta.url));
   const satlib = path.resolve(here, "../../../../shared/datasets/satlib/uf50-218");
@@ -86,6 +96,20 @@ export async function run(): Promise<void> {
       return { work };
     });
     pair("uf50-218 (breakwalk: until solved; walk: 3n flips/trial)", "flips", bwSat, walkSat, "breakwalk", "walk", 0.8);
+    // In alternation: breakwalk's 10 trials on 10 files against the walk's 60 trials (about as many flips) on the same.
+    alternatedLine(
+      (t) => {
+        let work = 0;
+        for (let i = 0; i < 10; i++) work += breakwalkCompiled(formulas[(10 * t + i) % formulas.length], { trials: 10, firstTrial: 10 * t, cap: 1e6, seed: "bench", stop: null }).work;
+        return { work };
+      },
+      (t) => {
+        let work = 0;
+        for (let i = 0; i < 10; i++) work += walkCompiled(formulas[(10 * t + i) % formulas.length], { trials: 60, firstTrial: 60 * t, seed: "bench", stop: null }).work;
+        return { work };
+      },
+      1.5 * scale,
+    );
 
     // Median flips to solution per file (21 RLD trials each), then the median over files.
     const perFile = (fn: (f: (typeof formulas)[number], name: string) => number): number[] =>
@@ -131,6 +155,13 @@ export async function run(): Promise<void> {
   // Interleaved A/B on the loaded test machine, pooled ratio of three rounds each, before → after the changes of
   // issue 12's remainder: SK R=8×500 0.88 → 0.90–0.92, R=16×100 0.80 → 0.84–0.87; 3-spin R=8×500 0.85–0.86 →
   // 0.88–0.90, R=16×100 0.83–0.84 → 0.87–0.90.
+}
+
+/** Runs {@link alternated} and prints the median and quartiles of the per-pair ratios (the figure to trust on a loaded machine). */
+function alternatedLine(mine: (t: number) => { work: number }, theirs: (t: number) => { work: number }, seconds: number): void {
+  const { ratios, medianRatio } = alternated(mine, theirs, seconds);
+  const q = (f: number): number => ratios[Math.min(ratios.length - 1, Math.floor(f * ratios.length))];
+  console.log(`  alternated (one call of each in turn, ${ratios.length} pairs): median per-CPU-second ratio ${medianRatio.toFixed(2)}, quartiles ${q(0.25).toFixed(2)}–${q(0.75).toFixed(2)}`);
 }
 
 /** Per-attempt and per-flip cost of one solver: CPU time per attempt = attempt + flip × (flips per attempt). */
@@ -358,6 +389,7 @@ function alternated(mine: (t: number) => { work: number }, theirs: (t: number) =
     theirs: { cpu: workTheirs / cpuTheirs, wall: workTheirs / wallTheirs },
     medianRatio,
     pairs: h,
+    ratios,
   };
 }
 
