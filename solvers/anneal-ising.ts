@@ -10,12 +10,18 @@ import { type Engine, type Poll, EXP_STEPS, EXP_TABLE, MAX_EXPONENT, PLACEHOLDER
 export const DENSE_MAX_SPINS = 2048;
 
 /**
- * {@link energyFromTerms} of a model whose terms are all pairs (term t on spins[2t], spins[2t + 1]): the same
- * operations in the same order ((1·a)·b = a·b exactly), without the offsets (SK n = 64: about 8 → 4 µs).
+ * {@link energyFromTerms} of a model whose terms are all pairs (term t on spins a, b, packed as a | b << 16 in
+ * pairs[t]): the same operations in the same order ((1·a)·b = a·b exactly), without the offsets (SK n = 64: about
+ * 8 → 4 µs). The packed pairs read one integer a term instead of two: about 1.3× faster alone, and 1.12–1.14× faster starts
+ * of the dense engine, which tempering runs R times a trial (SK n = 64, interleaved, the same energies). What is
+ * left of the sum is its chain of dependent subtractions, kept in the model's order so that the value stays the same.
  */
-function pairEnergy(constant: number, spins: Int32Array, coefficients: Float64Array, s: Float64Array): number {
+function pairEnergy(constant: number, pairs: Int32Array, coefficients: Float64Array, s: Float64Array): number {
   let e = constant;
-  for (let t = 0, terms = coefficients.length; t < terms; t++) e -= coefficients[t] * (s[spins[2 * t]] * s[spins[2 * t + 1]]);
+  for (let t = 0, terms = coefficients.length; t < terms; t++) {
+    const p = pairs[t];
+    e -= coefficients[t] * (s[p & 0xffff] * s[p >>> 16]);
+  }
   return e;
 }
 
@@ -75,8 +81,8 @@ interface DenseTables {
   readonly coupling: Float64Array;
   /** Local fields f_i (the 1-spin terms). */
   readonly field: Float64Array;
-  /** True when every term is a pair (SK, MaxCut): the start energy then comes from {@link pairEnergy}. */
-  readonly pairsOnly: boolean;
+  /** When every term is a pair (SK, MaxCut): term t's spins a | b << 16, for {@link pairEnergy}; else null. */
+  readonly pairs: Int32Array | null;
 }
 
 /** {@link DenseTables} of a model, built once per model (not once per replica). */
@@ -95,7 +101,13 @@ function denseTables(model: Ising): DenseTables {
       coupling[j * n + i] += model.coefficients[t];
     }
     if (model.termOffsets[model.termOffsets.length - 1] !== 2 * (model.termOffsets.length - 1)) pairsOnly = false;
-    shared.dense = { coupling, field: splitTerms(model).field, pairsOnly };
+    let pairs: Int32Array | null = null;
+    if (pairsOnly) {
+      // n ≤ DENSE_MAX_SPINS = 2048 < 2^16: both indices fit a half-word.
+      pairs = new Int32Array(model.coefficients.length);
+      for (let t = 0; t < pairs.length; t++) pairs[t] = model.termSpins[2 * t] | (model.termSpins[2 * t + 1] << 16);
+    }
+    shared.dense = { coupling, field: splitTerms(model).field, pairs };
     SHARED_TABLES.set(model, shared);
   }
   return shared.dense;
@@ -182,14 +194,14 @@ export class DenseEngine implements Engine {
   private readonly spin: Float64Array;
   private readonly local: Float64Array;
   private readonly bits: Uint8Array;
-  private readonly pairsOnly: boolean;
+  private readonly pairs: Int32Array | null;
 
   constructor(model: Ising) {
     const n = model.spins;
     this.n = n;
     this.model = model;
     const tables = denseTables(model);
-    this.pairsOnly = tables.pairsOnly;
+    this.pairs = tables.pairs;
     this.field = tables.field;
     this.coupling = tables.coupling;
     this.spin = new Float64Array(n);
@@ -257,7 +269,8 @@ export class DenseEngine implements Engine {
       local[i] = h;
     }
     const model = this.model;
-    this.energy = this.pairsOnly ? pairEnergy(model.constant, model.termSpins, model.coefficients, spin) : energyFromTerms(model, spin);
+    const pairs = this.pairs;
+    this.energy = pairs !== null ? pairEnergy(model.constant, pairs, model.coefficients, spin) : energyFromTerms(model, spin);
     this.best = this.energy;
     this.hit = this.energy <= threshold;
     this.threshold = this.hit ? -Infinity : threshold;
