@@ -21,7 +21,7 @@
  * occurrences); we measured both on random 3-SAT n = 200 (same draws, interleaved runs on the loaded 2-core test
  * machine): cached 6.6–7.7e6, on the fly 5.0–6.0e6 flips per CPU-second, so every k uses the cached counts.
  * Clauses of three literals run in a copy of the trial loop written for k = 3 ({@link threeSatTrials}: the same
- * draws, about 1.3× the general loop's flips per CPU-second). Nothing is allocated per flip. Trial t draws only
+ * draws, 1.3–1.4× the general loop's flips per CPU-second). Nothing is allocated per flip. Trial t draws only
  * from trialRng(seed, t) (./trial-seeds.ts).
  */
 import type { Cnf } from "../harness/model/cnf.js";
@@ -302,8 +302,10 @@ export function breakwalkCompiled(f: CompiledCnf, options: BreakwalkOptions): Br
  *   `perf`): a further 1.16×, 1.15×.
  * Tried without a gain (within ±2 %): branches instead of the branch-free list updates, a branch-free choice of the
  * literal, `| 0` on the loop's own sums while the offsets were still doubles, polling the stop flag in chunks of
- * flips. All together, against the general loop before this copy (bench `baselines`, same machine, same day):
- * random 3-SAT n = 200 7.0–7.6e6 → 9.0–9.7e6 flips per CPU-second, uf50-218 6.5–7.4e6 → 8.7–10e6.
+ * flips. All together, against the general loop before this copy (bench `baselines`, five runs each on the same
+ * day, the machine's load varying): random 3-SAT n = 200 6.6–7.9e6 → 8.4–10.6e6 flips per CPU-second, uf50-218
+ * 6.2–7.4e6 → 8.0–11.4e6; against the walk, alternated calls in one process (median of 25 per-pair ratios): n = 200
+ * 0.79 → 1.09 (walk 3n flips a trial), 0.69 → 0.97 (walk 1e5 flips a trial), uf50-218 0.69 → 0.89 (2 trials a call).
  *
  * Layout of `mem`:
  * - [0, P): per variable 2·break + value, P = n rounded up to a power of two (an XOR of variable indices read with
