@@ -71,8 +71,9 @@ export function energyFromTerms(model: Ising, s: Float64Array): number {
  * annealer's rate, 16 × 100 0.76 → 0.83. Later (issue 12): engine kind, dense fields and the start energy decided
  * once per model, cheaper starts, and term tables per member slot with no per-term replica state (3-spin n = 32:
  * both solvers about 1.3× faster); then the dense field update unrolled by four (SK n = 64: 1.27×) and, when every
- * term has three spins, the term engine's flip and start without inner loops (3-spin n = 32: 1.7–2× a flip, 106 →
- * 36 µs a start); test/bench/baselines.bench.ts gives the figures and what bounds the ratio.
+ * term has three spins, the term engine's flip and start without inner loops and a slot's two partners in one word
+ * (3-spin n = 32: 1.8–2.3× the attempt rate, 106 → 36 µs a start); test/bench/baselines.bench.ts gives the figures
+ * and what bounds the ratio.
  */
 const SHARED_TABLES = new WeakMap<Ising, { dense?: DenseTables; terms?: TermTables }>();
 

@@ -133,8 +133,8 @@ export async function run(): Promise<void> {
   // 0.87–0.90. Then (same bench, five runs each, two of them alternating old and new builds): SK R=8×500
   // 0.85–0.91 → 0.92–0.93, R=16×100 0.84–0.88 → 0.88–0.90; 3-spin R=8×500 0.84–0.91 → 0.88–0.91, R=16×100
   // 0.87–0.91 → 0.88–0.93, from a cheaper flip for both solvers (dense field update unrolled: SK 1.27×; three-spin
-  // terms without inner loops: 3-spin 1.7–2.1×) and cheaper starts (3-spin 106 → 36 µs, SK 1.13×; solvers/
-  // anneal-ising.ts).
+  // terms without inner loops, a slot's partners in one word: 3-spin 1.8–2.3×) and cheaper starts (3-spin 106 →
+  // 36 µs, SK 1.13×; solvers/anneal-ising.ts).
 }
 
 /**
