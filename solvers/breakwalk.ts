@@ -19,8 +19,10 @@
  * updated incrementally by a flip in O(occurrences of the flipped variable); f comes from a table indexed by
  * break. For 3-SAT the authors' code computes breaks on the fly instead (scanning the picked clause's variables'
  * occurrences); we measured both on random 3-SAT n = 200 (same draws, interleaved runs on the loaded 2-core test
- * machine): cached 6.6–7.7e6, on the fly 5.0–6.0e6 flips per CPU-second, so every k uses the cached counts. Nothing is allocated per flip. Trial t draws only from trialRng(seed, t)
- * (./trial-seeds.ts).
+ * machine): cached 6.6–7.7e6, on the fly 5.0–6.0e6 flips per CPU-second, so every k uses the cached counts.
+ * Clauses of three literals run in a copy of the trial loop written for k = 3 ({@link threeSatTrials}: the same
+ * draws, 1.3–1.4× the general loop's flips per CPU-second). Nothing is allocated per flip. Trial t draws only
+ * from trialRng(seed, t) (./trial-seeds.ts).
  */
 import type { Cnf } from "../harness/model/cnf.js";
 import { stepsToSolution, stopRequested, type StopFlag, type TrialsResult, type TrialsSolver } from "./types.js";
@@ -113,9 +115,9 @@ export function breakwalkCompiled(f: CompiledCnf, options: BreakwalkOptions): Br
   if (!(rule.cb > 0) || !Number.isFinite(rule.cb)) throw new RangeError(`breakwalk cb must be finite and > 0, got ${rule.cb}`);
   if (!(rule.eps > 0) || !Number.isFinite(rule.eps)) throw new RangeError(`breakwalk eps must be finite and > 0, got ${rule.eps}`);
   const table = breakTable(rule, f.maxOccurrences);
+  if (f.clauseLength === 3) return threeSatTrials(f, table, rule, options);
 
   const { clauseStart, clauseLiterals, occurrenceStart, occurrences } = f;
-  const k = f.clauseLength;
   const empty = f.emptyClauses;
   const value = new Uint8Array(n);
   // One word per clause: its true-literal count in the low `bits` bits, above them the XOR of the variables whose
@@ -195,34 +197,21 @@ export function breakwalkCompiled(f: CompiledCnf, options: BreakwalkOptions): Br
         }
       }
       const c = violated[rng.below(unsat) + 1];
-      let v: number;
-      if (k === 3) {
-        // Unrolled for 3-SAT: three table reads, one draw.
-        const base = 3 * c;
-        const a = clauseLiterals[base] >> 1;
-        const b = clauseLiterals[base + 1] >> 1;
-        const d = clauseLiterals[base + 2] >> 1;
-        const wa = table[breaks[a]];
-        const wb = table[breaks[b]];
-        const r = rng.nextU32() * 2.3283064365386963e-10 * (wa + wb + table[breaks[d]]);
-        v = r < wa ? a : r < wa + wb ? b : d;
-      } else {
-        const from = clauseStart[c];
-        const len = clauseStart[c + 1] - from;
-        let sum = 0;
-        for (let i = 0; i < len; i++) {
-          const w = table[breaks[clauseLiterals[from + i] >> 1]];
-          weight[i] = w;
-          sum += w;
-        }
-        let r = rng.nextU32() * 2.3283064365386963e-10 * sum;
-        let i = 0;
-        for (; i < len - 1; i++) {
-          r -= weight[i];
-          if (r < 0) break;
-        }
-        v = clauseLiterals[from + i] >> 1;
+      const from = clauseStart[c];
+      const len = clauseStart[c + 1] - from;
+      let sum = 0;
+      for (let i = 0; i < len; i++) {
+        const w = table[breaks[clauseLiterals[from + i] >> 1]];
+        weight[i] = w;
+        sum += w;
       }
+      let r = rng.nextU32() * 2.3283064365386963e-10 * sum;
+      let i = 0;
+      for (; i < len - 1; i++) {
+        r -= weight[i];
+        if (r < 0) break;
+      }
+      const v = clauseLiterals[from + i] >> 1;
 
       // Flip v: its literal with the new value became true in the `up` clauses, false in the `down` ones.
       const now = value[v] ^ 1;
@@ -290,6 +279,252 @@ export function breakwalkCompiled(f: CompiledCnf, options: BreakwalkOptions): Br
     trials: done, successes, work, best, censored, rule,
     runLengths: { flips: runFlips.slice(0, done), solved: runSolved.slice(0, done), cap },
   };
+}
+
+/**
+ * {@link breakwalkCompiled} for formulas whose clauses all have three literals: the same draws, flips and counts,
+ * in a copy of the trial loop written for k = 3 (the benches' and the families' common case).
+ *
+ * What differs from the general loop, each measured on random 3-SAT n = 200 and SATLIB uf50-218 (interleaved A/B
+ * runs, the same draws checked, median of 30 per-round ratios of flips per CPU-second, the loaded 2-core test
+ * machine, node 20):
+ * - the generator's state words in local variables for the whole trial, `nextU32` and `below` written out (the
+ *   same update and the same rejection rule as harness/random.ts; the words are stored back after the trial), and
+ *   k = 3 fixed in a function of its own: 1.04× (n = 200), 1.06× (uf50);
+ * - every integer the flip touches in one Int32Array `mem`, each stored index being a position in `mem` itself (as
+ *   the annealer's CNF engine does, anneal-cnf.ts: V8 reloads base and length of every distinct typed array in
+ *   each iteration), with the variable's value bit folded into its break entry (2·break + value): 1.16× and 1.14×
+ *   over the general loop together with the first item;
+ * - per clause one record of five words (packed word, slot in the violated list, the three variables), so that
+ *   a clause's word and slot share a cache line: a further 1.04×, 1.05×;
+ * - the layout's offsets marked int32 with `| 0`: V8 types sums of array lengths as doubles, and every index
+ *   computed from them went through a checked double-to-integer conversion (seen in the optimised code with
+ *   `perf`): a further 1.16×, 1.15×.
+ * Tried without a gain (within ±2 %): branches instead of the branch-free list updates, a branch-free choice of the
+ * literal, `| 0` on the loop's own sums while the offsets were still doubles, polling the stop flag in chunks of
+ * flips. All together, against the general loop before this copy (bench `baselines`, five runs each on the same
+ * day, the machine's load varying): random 3-SAT n = 200 6.6–7.9e6 → 8.4–10.6e6 flips per CPU-second, uf50-218
+ * 6.2–7.4e6 → 8.0–11.4e6; against the walk, alternated calls in one process (median of 25 per-pair ratios): n = 200
+ * 0.79 → 1.09 (walk 3n flips a trial), 0.69 → 0.97 (walk 1e5 flips a trial), uf50-218 0.69 → 0.89 (2 trials a call).
+ *
+ * Layout of `mem`:
+ * - [0, P): per variable 2·break + value, P = n rounded up to a power of two (an XOR of variable indices read with
+ *   weight 0 stays inside; the padding is written with weight 0 only);
+ * - literal occurrence starts (2n + 1): the occurrences of literal code ℓ are mem[occStartAt + ℓ] ..
+ *   mem[occStartAt + ℓ + 1];
+ * - occurrences: the position of the clause's record;
+ * - clause records (5m): at w the packed word (true-literal count | XOR of the true variables << 2), at w + 1 the
+ *   clause's slot in the violated list (valid while it is violated), at w + 2 .. w + 4 its three variables;
+ * - the violated list (m + 2): slots 1 .. unsat hold record positions; slot 0 and slot unsat + 1 are scratch;
+ * - scratch for the clauses one flip satisfies (maxOccurrences + 1).
+ */
+function threeSatTrials(f: CompiledCnf, table: Float64Array, rule: BreakwalkRule, options: BreakwalkOptions): BreakwalkResult {
+  const n = f.variables;
+  const m = f.clauses;
+  const trials = options.trials;
+  const cap = options.cap;
+  const firstTrial = options.firstTrial ?? 0;
+  const { clauseLiterals, occurrenceStart, occurrences } = f;
+  const empty = f.emptyClauses;
+  const padded = 2 ** Math.ceil(Math.log2(Math.max(n, 2)));
+  const size = padded + 2 * n + 1 + occurrences.length + 6 * m + 2 + f.maxOccurrences + 1;
+  if (padded * 4 > 2 ** 31 || size > 2 ** 31 - 1) throw new RangeError(`breakwalk: a 3-SAT formula with ${n} variables and ${m} clauses does not fit the packed layout`);
+  // `| 0` marks the offsets as int32 (sums of lengths are typed as doubles otherwise, and every index computed from
+  // them went through a checked double-to-integer conversion: measured 1.05x on n = 200 and uf50-218).
+  const occStartAt = padded | 0;
+  const occAt = (occStartAt + 2 * n + 1) | 0;
+  const recordAt = (occAt + occurrences.length) | 0;
+  const violatedAt = (recordAt + 5 * m) | 0;
+  const removedAt = (violatedAt + m + 2) | 0;
+  const mem = new Int32Array(size);
+  for (let l = 0; l <= 2 * n; l++) mem[occStartAt + l] = occAt + occurrenceStart[l];
+  for (let i = 0; i < occurrences.length; i++) mem[occAt + i] = recordAt + 5 * occurrences[i];
+  for (let c = 0; c < m; c++) for (let j = 0; j < 3; j++) mem[recordAt + 5 * c + 2 + j] = clauseLiterals[3 * c + j] >> 1;
+  // Below 2^21 entries the high word of x·unsat is one exact double product (as in Rng.below).
+  const smallList = m <= 2097152;
+  const key = trialKey(options.seed);
+  const stop = options.stop;
+  const runFlips = new Float64Array(trials);
+  const runSolved = new Uint8Array(trials);
+
+  let done = 0;
+  let successes = 0;
+  let work = 0;
+  let best = Infinity;
+  let censored = false;
+  let sincePoll = BREAKWALK_POLL_INTERVAL;
+
+  for (let t = firstTrial; t < firstTrial + trials; t++) {
+    if (++sincePoll >= BREAKWALK_POLL_INTERVAL) {
+      sincePoll = 0;
+      if (stopRequested(stop)) {
+        censored = true;
+        break;
+      }
+    }
+    const rng = trialRng(key, t);
+
+    // 1. Uniform random start (value bits in the low bit of each variable's entry, breaks 0).
+    mem.fill(0, 0, padded);
+    for (let v = 0; v < n; v += 32) {
+      const bits = rng.nextU32();
+      const top = Math.min(32, n - v);
+      for (let b = 0; b < top; b++) mem[v + b] = (bits >>> b) & 1;
+    }
+
+    // 2. Counts, critical variables, breaks and the violated list from scratch, clauses in increasing index.
+    let unsat = 0;
+    for (let c = 0, i = 0; c < m; c++, i += 3) {
+      const a = clauseLiterals[i];
+      const b = clauseLiterals[i + 1];
+      const d = clauseLiterals[i + 2];
+      const ta = (mem[a >> 1] ^ a ^ 1) & 1;
+      const tb = (mem[b >> 1] ^ b ^ 1) & 1;
+      const td = (mem[d >> 1] ^ d ^ 1) & 1;
+      const count = ta + tb + td;
+      const w = recordAt + 5 * c;
+      mem[w] = count | ((((a >> 1) & -ta) ^ ((b >> 1) & -tb) ^ ((d >> 1) & -td)) << 2);
+      if (count === 0) {
+        mem[violatedAt + ++unsat] = w;
+        mem[w + 1] = violatedAt + unsat;
+      } else if (count === 1) {
+        mem[mem[w] >>> 2] += 2;
+      }
+    }
+
+    // 3. The walk, on the generator's state words in locals.
+    const state = rng.state;
+    let s0 = state[0];
+    let s1 = state[1];
+    let s2 = state[2];
+    let s3 = state[3];
+    let trialBest = unsat;
+    let flips = 0;
+    let aborted = false;
+    while (unsat > 0 && flips < cap) {
+      if (++sincePoll >= BREAKWALK_POLL_INTERVAL) {
+        sincePoll = 0;
+        if (stopRequested(stop)) {
+          aborted = true;
+          break;
+        }
+      }
+      // below(unsat): x = nextU32(), redrawn while the low word of x·unsat is below 2^32 mod unsat.
+      let m5 = Math.imul(s1, 5);
+      let x = Math.imul((m5 << 7) | (m5 >>> 25), 9) >>> 0;
+      s2 ^= s0;
+      s3 ^= s1;
+      let t9 = s1 << 9;
+      s1 ^= s2;
+      s0 ^= s3;
+      s2 ^= t9;
+      s3 = (s3 << 11) | (s3 >>> 21);
+      let low = Math.imul(x, unsat) >>> 0;
+      if (low < unsat) {
+        const threshold = (4294967296 - unsat) % unsat;
+        while (low < threshold) {
+          m5 = Math.imul(s1, 5);
+          x = Math.imul((m5 << 7) | (m5 >>> 25), 9) >>> 0;
+          s2 ^= s0;
+          s3 ^= s1;
+          t9 = s1 << 9;
+          s1 ^= s2;
+          s0 ^= s3;
+          s2 ^= t9;
+          s3 = (s3 << 11) | (s3 >>> 21);
+          low = Math.imul(x, unsat) >>> 0;
+        }
+      }
+      const entry = smallList ? ((x * unsat) / 4294967296) | 0 : highWord(x, unsat) | 0;
+      const record = mem[(violatedAt + 1 + entry) | 0];
+      const a = mem[record + 2];
+      const b = mem[record + 3];
+      const d = mem[record + 4];
+      const wa = table[mem[a] >> 1];
+      const wb = table[mem[b] >> 1];
+      // The literal: u = nextU32(), the first of a, b, d whose cumulative weight exceeds u·2^−32·(wa + wb + wd).
+      m5 = Math.imul(s1, 5);
+      const u = Math.imul((m5 << 7) | (m5 >>> 25), 9) >>> 0;
+      s2 ^= s0;
+      s3 ^= s1;
+      t9 = s1 << 9;
+      s1 ^= s2;
+      s0 ^= s3;
+      s2 ^= t9;
+      s3 = (s3 << 11) | (s3 >>> 21);
+      const r = u * 2.3283064365386963e-10 * (wa + wb + table[mem[d] >> 1]);
+      const v = r < wa ? a : r < wa + wb ? b : d;
+
+      // Flip v, as in the general loop (same order of visits, the same list moves), on the records.
+      const entryV = mem[v];
+      const now = (entryV & 1) ^ 1;
+      const up = occStartAt + 2 * v + now;
+      const vx = v << 2;
+      let nRemoved = removedAt;
+      let gained = 0;
+      for (let i = mem[up], end = mem[up + 1]; i < end; i++) {
+        const w = mem[i];
+        const word = mem[w];
+        const count = word & 3;
+        mem[w] = (word + 1) ^ vx;
+        const wasZero = ((count - 1) >>> 31) | 0;
+        mem[word >>> 2] -= ((((count ^ 1) - 1) >>> 31) | 0) << 1; // count 1 → 2: its critical variable loses a break
+        gained = (gained + wasZero) | 0; // count 0 → 1: v alone satisfies it now
+        mem[nRemoved] = w;
+        nRemoved = (nRemoved + wasZero) | 0;
+      }
+      for (let q = removedAt; q < nRemoved; q++) {
+        const w = mem[q];
+        const last = mem[violatedAt + unsat--];
+        const slot = mem[w + 1];
+        mem[slot] = last;
+        mem[last + 1] = slot;
+      }
+      const down = up ^ 1;
+      let lost = 0;
+      for (let i = mem[down], end = mem[down + 1]; i < end; i++) {
+        const w = mem[i];
+        const word = ((mem[w] ^ vx) - 1) | 0;
+        mem[w] = word;
+        const count = word & 3;
+        const isZero = ((count - 1) >>> 31) | 0;
+        lost = (lost + isZero) | 0; // count 1 → 0: v was its critical variable
+        mem[word >>> 2] += ((((count ^ 1) - 1) >>> 31) | 0) << 1; // count 2 → 1: the remaining true variable is critical
+        const slot = (violatedAt + unsat + 1) | 0;
+        mem[slot] = w;
+        mem[w + 1] = slot;
+        unsat = (unsat + isZero) | 0;
+      }
+      mem[v] = entryV + ((gained - lost) << 1) + now - (entryV & 1);
+      flips++;
+      if (unsat < trialBest) trialBest = unsat;
+    }
+    state[0] = s0;
+    state[1] = s1;
+    state[2] = s2;
+    state[3] = s3;
+    if (aborted) {
+      censored = true;
+      break;
+    }
+    const solved = unsat === 0 && empty === 0;
+    runFlips[done] = flips;
+    runSolved[done] = solved ? 1 : 0;
+    done++;
+    work += flips;
+    if (solved) successes++;
+    if (trialBest + empty < best) best = trialBest + empty;
+  }
+  return {
+    trials: done, successes, work, best, censored, rule,
+    runLengths: { flips: runFlips.slice(0, done), solved: runSolved.slice(0, done), cap },
+  };
+}
+
+/** ⌊x·bound/2^32⌋ for bound above 2^21 (x·bound may exceed 2^53), from 16-bit halves as in Rng.below. */
+function highWord(x: number, bound: number): number {
+  const mid = (x & 0xffff) * bound;
+  return Math.floor(((x >>> 16) * bound + Math.floor(mid / 65536)) / 65536);
 }
 
 function checkCount(name: string, value: number): void {
