@@ -10,7 +10,8 @@
  *    bandwidth). Target: within 3× at n ≥ 24. (Until this session the floor came from a scalar JavaScript triad,
  *    which is bound by its instructions at about half the machine's bandwidth: ratios printed before then are
  *    about 1.7–1.9× too lenient.)
- *    n = 28 needs 6.3 GiB: it runs only when there is room (75% of physical memory).
+ *    n = 28 needs 6.3 GiB: it runs only when there is room (75% of physical memory). Each row runs in a fresh
+ *    process, so its vectors are returned to the system before the next row or point starts.
  * 2. One (b, η) = (0.7, 0.5) point (e0, e1, both overlaps) on planted 3-SAT n = 26 (target < 4 min) and SK n = 24,
  *    symmetric sector (target < 10 s), each in a fresh process with the spectral command's memory rule (stored
  *    Lanczos vectors in the allowance beyond the lean minimum). The 3-SAT n = 28 point (target < 15 min) and the SK
@@ -143,7 +144,14 @@ export async function run(): Promise<void> {
       console.log(`matvec 3-SAT n=${n}: skipped (needs ${(need / 1024 ** 3).toFixed(1)} GiB)`);
       continue;
     }
-    matvecRow(n, bandwidth, teamBandwidth);
+    // In a child process, like the points: the 2–6 GiB of vectors a row holds are then returned to the system
+    // before the next row or point, instead of waiting for this process's collector (a point that followed the
+    // n = 28 row in this process found that memory still taken and paid cold first-touch faults for its own).
+    const out = execFileSync(process.execPath, [fileURLToPath(import.meta.url), "--matvec", String(n), String(bandwidth), String(teamBandwidth)], {
+      encoding: "utf8",
+      stdio: ["ignore", "pipe", "inherit"],
+    });
+    process.stdout.write(out);
   }
   if (only === "matvec") return;
   pointRow("SK n=24", 10);
@@ -157,5 +165,7 @@ export async function run(): Promise<void> {
 }
 
 const pointAt = process.argv.indexOf("--point");
-if (pointAt >= 0) pointHere(process.argv[pointAt + 1], POINTS[process.argv[pointAt + 1]](), Number(process.argv[pointAt + 2]));
+const matvecAt = process.argv.indexOf("--matvec");
+if (matvecAt >= 0) matvecRow(Number(process.argv[matvecAt + 1]), Number(process.argv[matvecAt + 2]), Number(process.argv[matvecAt + 3]));
+else if (pointAt >= 0) pointHere(process.argv[pointAt + 1], POINTS[process.argv[pointAt + 1]](), Number(process.argv[pointAt + 2]));
 else if (process.argv[1]?.endsWith("spectral-scale.bench.js")) await run();
