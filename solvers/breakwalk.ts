@@ -28,6 +28,7 @@ import type { Cnf } from "../harness/model/cnf.js";
 import { stepsToSolution, stopRequested, type StopFlag, type TrialsResult, type TrialsSolver } from "./types.js";
 import { compileCnf, type CompiledCnf } from "./compile-cnf.js";
 import { trialKey, trialRng } from "./trial-seeds.js";
+import { RunLengthTally } from "./run-length-tally.js";
 import type { RunLengths } from "../harness/types.js";
 
 /** The shape of f: polynomial (ε + b)^(−cb) or exponential cb^(−b). */
@@ -136,13 +137,7 @@ export function breakwalkCompiled(f: CompiledCnf, options: BreakwalkOptions): Br
   const weight = new Float64Array(Math.max(maxLength, 1));
   const key = trialKey(options.seed);
   const stop = options.stop;
-  const runFlips = new Float64Array(trials);
-  const runSolved = new Uint8Array(trials);
-
-  let done = 0;
-  let successes = 0;
-  let work = 0;
-  let best = Infinity;
+  const tally = new RunLengthTally(trials);
   let censored = false;
   let sincePoll = BREAKWALK_POLL_INTERVAL;
 
@@ -268,16 +263,11 @@ export function breakwalkCompiled(f: CompiledCnf, options: BreakwalkOptions): Br
       break;
     }
     const solved = unsat === 0 && empty === 0;
-    runFlips[done] = flips;
-    runSolved[done] = solved ? 1 : 0;
-    done++;
-    work += flips;
-    if (solved) successes++;
-    if (trialBest + empty < best) best = trialBest + empty;
+    tally.add(flips, solved, trialBest + empty);
   }
   return {
-    trials: done, successes, work, best, censored, rule,
-    runLengths: { flips: runFlips.slice(0, done), solved: runSolved.slice(0, done), cap },
+    trials: tally.done, successes: tally.successes, work: tally.work, best: tally.best, censored, rule,
+    runLengths: tally.runLengths(cap),
   };
 }
 
@@ -344,13 +334,7 @@ function threeSatTrials(f: CompiledCnf, table: Float64Array, rule: BreakwalkRule
   const smallList = m <= 2097152;
   const key = trialKey(options.seed);
   const stop = options.stop;
-  const runFlips = new Float64Array(trials);
-  const runSolved = new Uint8Array(trials);
-
-  let done = 0;
-  let successes = 0;
-  let work = 0;
-  let best = Infinity;
+  const tally = new RunLengthTally(trials);
   let censored = false;
   let sincePoll = BREAKWALK_POLL_INTERVAL;
 
@@ -508,16 +492,11 @@ function threeSatTrials(f: CompiledCnf, table: Float64Array, rule: BreakwalkRule
       break;
     }
     const solved = unsat === 0 && empty === 0;
-    runFlips[done] = flips;
-    runSolved[done] = solved ? 1 : 0;
-    done++;
-    work += flips;
-    if (solved) successes++;
-    if (trialBest + empty < best) best = trialBest + empty;
+    tally.add(flips, solved, trialBest + empty);
   }
   return {
-    trials: done, successes, work, best, censored, rule,
-    runLengths: { flips: runFlips.slice(0, done), solved: runSolved.slice(0, done), cap },
+    trials: tally.done, successes: tally.successes, work: tally.work, best: tally.best, censored, rule,
+    runLengths: tally.runLengths(cap),
   };
 }
 

@@ -18,6 +18,7 @@
  */
 import { compileCnf, type CompiledCnf } from "./compile-cnf.js";
 import { trialKey, trialRng } from "./trial-seeds.js";
+import { RunLengthTally } from "./run-length-tally.js";
 import type { Cnf } from "../harness/model/cnf.js";
 import type { RunLengths } from "../harness/types.js";
 import { stepsToSolution, stopRequested, type StopFlag, type TrialsResult, type TrialsSolver } from "./types.js";
@@ -113,13 +114,7 @@ export function walkCompiled(f: CompiledCnf, options: WalkOptions): WalkResult {
   const removed = new Int32Array(f.maxOccurrences + 1);
   const key = trialKey(options.seed);
   const stop = options.stop;
-  const runFlips = new Float64Array(trials);
-  const runSolved = new Uint8Array(trials);
-
-  let done = 0;
-  let successes = 0;
-  let work = 0;
-  let best = Infinity;
+  const tally = new RunLengthTally(trials);
   let censored = false;
   let sincePoll = WALK_POLL_INTERVAL; // poll before the first trial
 
@@ -235,16 +230,11 @@ export function walkCompiled(f: CompiledCnf, options: WalkOptions): WalkResult {
       if (unsat === 0 || flips >= maxFlips) break;
     }
     const solved = unsat === 0 && empty === 0;
-    runFlips[done] = flips;
-    runSolved[done] = solved ? 1 : 0;
-    done++;
-    work += flips;
-    if (solved) successes++;
-    if (trialBest + empty < best) best = trialBest + empty;
+    tally.add(flips, solved, trialBest + empty);
   }
   return {
-    trials: done, successes, work, best, censored,
-    runLengths: { flips: runFlips.slice(0, done), solved: runSolved.slice(0, done), cap: maxFlips },
+    trials: tally.done, successes: tally.successes, work: tally.work, best: tally.best, censored,
+    runLengths: tally.runLengths(maxFlips),
   };
 }
 
