@@ -4,7 +4,8 @@
  */
 import type { Rng } from "../harness/random.js";
 import type { CompiledCnf } from "./compile-cnf.js";
-import { type Engine, type Poll, MAX_EXPONENT, PLACEHOLDER_RNG, pollStop, randomBits } from "./anneal-setup.js";
+import { type Engine, type Poll, MAX_EXPONENT, PLACEHOLDER_RNG, pollStop } from "./anneal-setup.js";
+import { randomAssignment } from "./trial-seeds.js";
 
 /** Entries of a precomputed acceptance table above which {@link CnfEngine} fills one row per sweep instead. */
 export const CNF_TABLE_MAX = 1 << 20;
@@ -113,7 +114,7 @@ export class CnfEngine implements Engine {
     const words = this.wordAt;
     const bits = this.countBits;
     this.rng = rng;
-    randomBits(rng, value);
+    randomAssignment(rng, value);
     mem.fill(0, 0, this.occStartAt);
     let cost = this.f.emptyClauses;
     for (let c = 0; c < clauses; c++) {

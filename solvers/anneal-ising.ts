@@ -4,7 +4,8 @@
  */
 import type { Rng } from "../harness/random.js";
 import type { Ising } from "../harness/model/ising.js";
-import { type Engine, type Poll, EXP_STEPS, EXP_TABLE, MAX_EXPONENT, PLACEHOLDER_RNG, pollStop, randomBits } from "./anneal-setup.js";
+import { type Engine, type Poll, EXP_STEPS, EXP_TABLE, MAX_EXPONENT, PLACEHOLDER_RNG, pollStop } from "./anneal-setup.js";
+import { randomAssignment } from "./trial-seeds.js";
 
 /** Largest n for the dense pair matrix (8·n² bytes: 32 MiB at 2048). */
 export const DENSE_MAX_SPINS = 2048;
@@ -241,7 +242,7 @@ export class DenseEngine implements Engine {
     const J = this.coupling;
     const field = this.field;
     const local = this.local;
-    randomBits(rng, bits);
+    randomAssignment(rng, bits);
     for (let i = 0; i < n; i++) spin[i] = bits[i] === 0 ? 1 : -1;
     // h_i = f_i + Σ_j J_ij s_j, each summed in increasing j as before, but four rows at once: four independent
     // chains of additions instead of one (a chain waits for each addition's latency). Tempering starts R
@@ -427,7 +428,7 @@ export class TermEngine implements Engine {
     this.rng = rng;
     const n = this.n;
     const { termStart, termSpins, termJ, sum, spin, bits } = this;
-    randomBits(rng, bits);
+    randomAssignment(rng, bits);
     for (let i = 0; i < n; i++) spin[i] = bits[i] === 0 ? 1 : -1;
     sum.fill(0);
     // The same operations in the same order as through `this` each time; locals let the compiler keep them in

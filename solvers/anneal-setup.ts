@@ -96,14 +96,6 @@ export interface Engine {
   flip(i: number): void;
 }
 
-export function randomBits(rng: Rng, out: Uint8Array): void {
-  const n = out.length;
-  for (let v = 0; v < n; v += 32) {
-    const bits = rng.nextU32();
-    const top = Math.min(32, n - v);
-    for (let b = 0; b < top; b++) out[v + b] = (bits >>> b) & 1;
-  }
-}
 
 /** Nearest-rank quantile of a list (sorted here in place). */
 export function quantile(values: number[], q: number): number {

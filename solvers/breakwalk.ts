@@ -27,7 +27,7 @@
 import type { Cnf } from "../harness/model/cnf.js";
 import { stepsToSolution, stopRequested, type StopFlag, type TrialsResult, type TrialsSolver } from "./types.js";
 import { compileCnf, type CompiledCnf } from "./compile-cnf.js";
-import { trialKey, trialRng } from "./trial-seeds.js";
+import { randomAssignment, trialKey, trialRng } from "./trial-seeds.js";
 import { RunLengthTally } from "./run-length-tally.js";
 import type { RunLengths } from "../harness/types.js";
 
@@ -152,11 +152,7 @@ export function breakwalkCompiled(f: CompiledCnf, options: BreakwalkOptions): Br
     const rng = trialRng(key, t);
 
     // 1. Uniform random start.
-    for (let v = 0; v < n; v += 32) {
-      const bits = rng.nextU32();
-      const top = Math.min(32, n - v);
-      for (let b = 0; b < top; b++) value[v + b] = (bits >>> b) & 1;
-    }
+    randomAssignment(rng, value);
 
     // 2. Counts, critical variables, breaks and the violated list from scratch.
     breaks.fill(0);
@@ -327,6 +323,8 @@ function threeSatTrials(f: CompiledCnf, table: Float64Array, rule: BreakwalkRule
   const violatedAt = (recordAt + 5 * m) | 0;
   const removedAt = (violatedAt + m + 2) | 0;
   const mem = new Int32Array(size);
+  /** The variables' entries, where each trial's random start is written. */
+  const starts = mem.subarray(0, n);
   for (let l = 0; l <= 2 * n; l++) mem[occStartAt + l] = occAt + occurrenceStart[l];
   for (let i = 0; i < occurrences.length; i++) mem[occAt + i] = recordAt + 5 * occurrences[i];
   for (let c = 0; c < m; c++) for (let j = 0; j < 3; j++) mem[recordAt + 5 * c + 2 + j] = clauseLiterals[3 * c + j] >> 1;
@@ -349,12 +347,8 @@ function threeSatTrials(f: CompiledCnf, table: Float64Array, rule: BreakwalkRule
     const rng = trialRng(key, t);
 
     // 1. Uniform random start (value bits in the low bit of each variable's entry, breaks 0).
-    mem.fill(0, 0, padded);
-    for (let v = 0; v < n; v += 32) {
-      const bits = rng.nextU32();
-      const top = Math.min(32, n - v);
-      for (let b = 0; b < top; b++) mem[v + b] = (bits >>> b) & 1;
-    }
+    mem.fill(0, n, padded);
+    randomAssignment(rng, starts);
 
     // 2. Counts, critical variables, breaks and the violated list from scratch, clauses in increasing index.
     let unsat = 0;

@@ -82,3 +82,17 @@ export function uniformBelow(rng: Rng, bound: number): number {
   const mid = xl * bound;
   return Math.floor((xh * bound + Math.floor(mid / 65536)) / 65536);
 }
+
+/**
+ * A trial's uniformly random start, the same draws for every solver: ⌈n/32⌉ calls of `nextU32`, bit b of call i
+ * giving variable 32·i + b (out[v] = 0 or 1, n = out.length; an Int32Array view lets a solver keep other state in
+ * the entries' higher bits, written over here).
+ */
+export function randomAssignment(rng: Rng, out: Uint8Array | Int32Array): void {
+  const n = out.length;
+  for (let v = 0; v < n; v += 32) {
+    const bits = rng.nextU32();
+    const top = Math.min(32, n - v);
+    for (let b = 0; b < top; b++) out[v + b] = (bits >>> b) & 1;
+  }
+}

@@ -17,7 +17,7 @@
  * A step costs O(occurrences of the flipped variable); nothing is ever rescanned.
  */
 import { compileCnf, type CompiledCnf } from "./compile-cnf.js";
-import { trialKey, trialRng } from "./trial-seeds.js";
+import { randomAssignment, trialKey, trialRng } from "./trial-seeds.js";
 import { RunLengthTally } from "./run-length-tally.js";
 import type { Cnf } from "../harness/model/cnf.js";
 import type { RunLengths } from "../harness/types.js";
@@ -133,11 +133,7 @@ export function walkCompiled(f: CompiledCnf, options: WalkOptions): WalkResult {
     // One pass a start: a single one unless restartFlips < maxFlips.
     for (;;) {
       // 1. Uniform random start, 32 variables per draw.
-      for (let v = 0; v < n; v += 32) {
-        const bits = rng.nextU32();
-        const top = Math.min(32, n - v);
-        for (let b = 0; b < top; b++) value[v + b] = (bits >>> b) & 1;
-      }
+      randomAssignment(rng, value);
 
       // 2. True-literal counts and the violated list, built once per start. Branch-free: (value ^ code ^ 1) & 1 is 1
       // when the literal is true, and every clause is written to the slot after the list, which advances only

@@ -34,25 +34,27 @@ const partial = new Float64Array(2);
 function vectorPhase(phase: number, dim: number): void {
   const from = teamShare(dim, 8, data.index, data.threads);
   const to = teamShare(dim, 8, data.index + 1, data.threads);
-  const a = arrays[ctrl[2]] as Float64Array;
+  // Slots: [2] the first operand (for the sweep: the list of vector ids), [3] y0 or u, [4] the optional third.
   const b = arrays[ctrl[3]] as Float64Array;
   const c = ctrl[4] >= 0 ? (arrays[ctrl[4]] as Float64Array) : null;
   partial[0] = 0;
   partial[1] = 0;
-  if (phase === PHASE_SWEEP) {
-    // ctrl[2]: the list of vector ids, ctrl[5]: their coefficients (c0 then c1), params[0]: how many.
-    const count = params[0];
-    const ids = arrays[ctrl[2]] as Int32Array;
-    const coefficients = arrays[ctrl[5]] as Float64Array;
-    const xs: Float64Array[] = [];
-    for (let j = 0; j < count; j++) xs.push(arrays[ids[j]] as Float64Array);
-    const c0 = coefficients.subarray(0, count);
-    const c1 = c !== null ? coefficients.subarray(count, 2 * count) : null;
-    sweepRange(xs, count, c0, b, c1, c, from, to);
-  } else if (phase === PHASE_UPDATE) updateRange(a, b, params[0], c, from, to, partial);
-  else combineRange(a, b, params[0], c, params[1], from, to);
+  if (phase === PHASE_SWEEP) sweepShare(b, c, from, to);
+  else if (phase === PHASE_UPDATE) updateRange(arrays[ctrl[2]] as Float64Array, b, params[0], c, from, to, partial);
+  else combineRange(arrays[ctrl[2]] as Float64Array, b, params[0], c, params[1], from, to);
   params[P_ALPHA + data.index] = partial[0];
   params[P_ALPHA + data.threads + data.index] = partial[1];
+}
+
+/** The Ritz sweep's share: ctrl[2] names the list of vector ids, ctrl[5] their coefficients (c0 then c1), params[0] how many. */
+function sweepShare(y0: Float64Array, y1: Float64Array | null, from: number, to: number): void {
+  const count = params[0];
+  const ids = arrays[ctrl[2]] as Int32Array;
+  const coefficients = arrays[ctrl[5]] as Float64Array;
+  const xs: Float64Array[] = [];
+  for (let j = 0; j < count; j++) xs.push(arrays[ids[j]] as Float64Array);
+  const c1 = y1 !== null ? coefficients.subarray(count, 2 * count) : null;
+  sweepRange(xs, count, coefficients.subarray(0, count), y0, c1, y1, from, to);
 }
 
 let seen = 0;
