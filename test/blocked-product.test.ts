@@ -5,8 +5,10 @@
  * (one-byte and two-byte levels with a table, affine with a cap), with and without the mirror, over plans that cut
  * the space in many different ways (block, run and group sizes), and the two-thread product team.
  */
+import { spawnSync } from "node:child_process";
 import { describe, expect, it } from "vitest";
-import { applyBlocked, blockedPlan } from "../harness/predict/numerics/blocked-product.js";
+import { applyBlocked, BlockedKernel, blockedPlan, type BlockedPlan } from "../harness/predict/numerics/blocked-product.js";
+import { nativeProduct, type ProductKernels } from "../harness/predict/numerics/native/kernels.js";
 import { ProductTeam, sharedFloat64, sharedUint16, sharedUint8 } from "../harness/predict/numerics/product-team.js";
 import { sweepRange } from "../harness/predict/numerics/vector-ops.js";
 import { diagonalAt, type Diagonal, type TransverseFieldOperator } from "../harness/predict/numerics/transverse-field.js";
@@ -64,12 +66,24 @@ function compare(op: TransverseFieldOperator, v: Float64Array, prev: Float64Arra
   return [err, Math.abs(alpha - dot) / Math.max(1, Math.abs(dot))];
 }
 
+/** The whole product (pass A over every block, then pass B) on one kernel; returns wᵀv. */
+function product(
+  kernel: BlockedKernel, op: TransverseFieldOperator, plan: BlockedPlan, v: Float64Array, sigma: number,
+  prev: Float64Array, gamma: number, w: Float64Array,
+): number {
+  kernel.passA(op, plan, v, sigma, prev, gamma, w, 0, plan.blocks);
+  return kernel.passB(op, plan, v, sigma, w, 0, plan.groups);
+}
+
+const built = nativeProduct() !== null;
+
 describe("blocked transverse-field product against the definition", () => {
   // [bits, mirror, block bits limit, scratch bits limit]: runs of 2^3 (the kernels' group) up to long runs.
   const shapes: [number, boolean, number, number][] = [
     [9, false, 5, 7],
     [9, true, 5, 8],
     [10, true, 5, 9],
+    [10, false, 4, 9], // blocks of 16 amplitudes: the native pass A's loop for blocks below four groups
     [11, false, 6, 9],
     [12, true, 7, 10],
     [12, true, 6, 10],
@@ -78,28 +92,48 @@ describe("blocked transverse-field product against the definition", () => {
     [17, false, 16, 19],
     [17, true, 18, 19], // the default-sized block (capped at bits − 1)
   ];
-  for (const kind of ["levels8", "levels16", "affine"] as const) {
-    for (const [bits, mirror, low, scratch] of shapes) {
-      const plan = blockedPlan(bits, mirror, low, scratch);
-      it(`${kind}, ${bits} bits${mirror ? " (sector)" : ""}, plan ${JSON.stringify(plan)}`, () => {
-        expect(plan).not.toBeNull();
-        const op = randomOperator(bits, mirror, kind, `${kind}-${bits}-${low}`);
-        const rng = new Rng(`vectors-${bits}`);
-        const v = randomVector(op.dim, rng);
-        const prev = randomVector(op.dim, rng);
-        const w = sharedFloat64(op.dim);
-        const [err, alphaErr] = compare(op, v, prev, w, applyBlocked(op, plan!, v, 1.3, prev, 0.4, w));
-        expect(err).toBeLessThan(1e-12);
-        expect(alphaErr).toBeLessThan(1e-12);
-        // γ = 0 with v' = v (the residual check's call): no copy of v' is made, the result is H v.
-        applyBlocked(op, plan!, v, 1.3, v, 0, w);
-        const ref0 = definition(op, v, 1.3, v, 0);
-        let e0 = 0;
-        for (let z = 0; z < op.dim; z++) e0 = Math.max(e0, Math.abs(w[z] - ref0[z]));
-        expect(e0).toBeLessThan(1e-12);
-      });
+  for (const use of ["wasm", "native"] as ProductKernels[]) {
+    for (const kind of ["levels8", "levels16", "affine"] as const) {
+      for (const [bits, mirror, low, scratch] of shapes) {
+        const plan = blockedPlan(bits, mirror, low, scratch);
+        it.skipIf(use === "native" && !built)(`${use} kernels, ${kind}, ${bits} bits${mirror ? " (sector)" : ""}, plan ${JSON.stringify(plan)}`, () => {
+          expect(plan).not.toBeNull();
+          const kernel = new BlockedKernel(use);
+          const op = randomOperator(bits, mirror, kind, `${kind}-${bits}-${low}`);
+          const rng = new Rng(`vectors-${bits}`);
+          const v = randomVector(op.dim, rng);
+          const prev = randomVector(op.dim, rng);
+          const w = sharedFloat64(op.dim);
+          const [err, alphaErr] = compare(op, v, prev, w, product(kernel, op, plan!, v, 1.3, prev, 0.4, w));
+          expect(err).toBeLessThan(1e-12);
+          expect(alphaErr).toBeLessThan(1e-12);
+          // γ = 0 with v' = v (the residual check's call): no copy of v' is made, the result is H v.
+          product(kernel, op, plan!, v, 1.3, v, 0, w);
+          const ref0 = definition(op, v, 1.3, v, 0);
+          let e0 = 0;
+          for (let z = 0; z < op.dim; z++) e0 = Math.max(e0, Math.abs(w[z] - ref0[z]));
+          expect(e0).toBeLessThan(1e-12);
+        });
+      }
     }
   }
+
+  it("the native kernels are built wherever a C compiler is (the install's build step compiles them)", () => {
+    const compiler = spawnSync(process.env.CC || "cc", ["--version"], { stdio: "ignore" });
+    expect(built).toBe(compiler.status === 0);
+  });
+
+  it("applyBlocked runs on the thread's default kernels (native when built)", () => {
+    const plan = blockedPlan(12, false, 7, 10)!;
+    const op = randomOperator(12, false, "levels8", "default-kernels");
+    const rng = new Rng("default-kernels");
+    const v = randomVector(op.dim, rng);
+    const prev = randomVector(op.dim, rng);
+    const w = sharedFloat64(op.dim);
+    const [err] = compare(op, v, prev, w, applyBlocked(op, plan, v, 1.3, prev, 0.4, w));
+    expect(err).toBeLessThan(1e-12);
+    expect(new BlockedKernel().use).toBe(built ? "native" : "wasm");
+  });
 
   it("no plan when runs would be shorter than the kernels' group of eight", () => {
     expect(blockedPlan(12, true, 6, 8)).toBeNull(); // r = min(5, 8 − 6 − 1) = 1

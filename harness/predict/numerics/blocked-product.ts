@@ -17,6 +17,7 @@
  * Sizes: L = 18 (a block's v, v', w: 6 MiB, in the last-level cache), pass B scratch 2^19 amplitudes of v and of w
  * (8 MiB); runs are then 2^(19 − H − mirror) amplitudes: 2 KiB at 28 bits in the sector. Plans exist from 19 bits.
  */
+import { defaultProductKernels, nativeProduct, type NativeProduct, type ProductKernels } from "./native/kernels.js";
 import type { LevelDiagonal, TransverseFieldOperator } from "./transverse-field.js";
 import { instantiateKernels, type TransverseKernels } from "./wasm/kernels.js";
 
@@ -78,8 +79,21 @@ export function productPlan(op: TransverseFieldOperator): BlockedPlan | null {
   return op.bits >= BLOCKED_MIN_BITS ? blockedPlan(op.bits, op.mirror) : null;
 }
 
-/** One thread's kernel instance and scratch layout; reused while the plan's shape and table size fit. */
+/**
+ * Columns of a group that pass B of the native kernels takes across all 2^H rows of its scratch before moving on:
+ * 2^16 amplitudes a tile (512 KiB, in the inner cache while every high flip reads it), at least 64 a row.
+ * (One thread, tiles of 64 to 2048 columns at n = 24, 26, 28 measured within the machine's noise of each other.)
+ */
+export function nativeTile(plan: BlockedPlan): number {
+  return Math.max(64, 2 ** (16 - plan.highBits));
+}
+
+/**
+ * One thread's kernels: the in-place native passes (native/transverse-product.c) when they are built, else the
+ * WebAssembly kernels with their scratch layout (reused while the plan's shape and table size fit).
+ */
 export class BlockedKernel {
+  private readonly native: NativeProduct | null;
   private kernels: TransverseKernels | null = null;
   private capacity = 0;
   private f64 = new Float64Array(0);
@@ -88,6 +102,12 @@ export class BlockedKernel {
   /** Byte offsets: level table, then the scratch (pass A: v, v', w, diagonal; pass B: v halves, w halves). */
   private tableAt = 0;
   private scratchAt = 0;
+
+  /** @param use - the kernels to run (default: {@link defaultProductKernels}). */
+  constructor(readonly use: ProductKernels = defaultProductKernels()) {
+    this.native = use === "native" ? nativeProduct() : null;
+    if (use === "native" && this.native === null) throw new Error("the native product kernels were not built");
+  }
 
   /** Sizes the memory for `plan` with a table of `tableLength` doubles. */
   private prepare(plan: BlockedPlan, tableLength: number): TransverseKernels {
@@ -123,6 +143,16 @@ export class BlockedKernel {
     to: number,
   ): void {
     const d = op.diagonal;
+    if (this.native !== null) {
+      const sx = -sigma * op.field;
+      if (d.kind === "levels") {
+        const kind = d.levels instanceof Uint16Array ? 1 : 0;
+        this.native.passA(v, vprev, kind, d.levels, d.table, w, sigma, gamma, sx, 0, 0, 0, plan.lowBits, from, to);
+      } else {
+        this.native.passA(v, vprev, 2, d.costs, null, w, sigma, gamma, sx, d.scale, d.shift, d.cap, plan.lowBits, from, to);
+      }
+      return;
+    }
     const k = this.prepare(plan, d.kind === "levels" ? d.table.length : 0);
     const block = 2 ** plan.lowBits;
     const nb = 8 * block;
@@ -162,6 +192,10 @@ export class BlockedKernel {
 
   /** Pass B over groups [from, to): the high flips (and the mirror) added to w; returns their part of wᵀv. */
   passB(op: TransverseFieldOperator, plan: BlockedPlan, v: Float64Array, sigma: number, w: Float64Array, from: number, to: number): number {
+    if (this.native !== null) {
+      const { bits, lowBits, runBits, highBits, mirror } = plan;
+      return this.native.passB(v, w, -sigma * op.field, bits, lowBits, runBits, highBits, mirror ? 1 : 0, nativeTile(plan), from, to);
+    }
     const k = this.prepare(plan, op.diagonal.kind === "levels" ? op.diagonal.table.length : 0);
     const run = 2 ** plan.runBits;
     const runs = 2 ** plan.highBits;
