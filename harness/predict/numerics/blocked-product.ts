@@ -1,6 +1,7 @@
 /**
- * The transverse-field product w = σ·(H v) − γ·v' for large working spaces, in two passes over cache-sized scratch
- * copies, with the WebAssembly kernels of wasm/kernel-source.ts:
+ * The transverse-field product w = σ·(H v) − γ·v' for large working spaces, in two passes, on the native kernels of
+ * native/transverse-product.c when they were built (in place; only v is copied, into padded rows) and otherwise on
+ * the WebAssembly kernels of wasm/kernel-source.ts, over cache-sized scratch copies as described here:
  *
  *   pass A, per block of 2^L contiguous amplitudes: the diagonal, the recurrence term and every flip of the bits
  *           [0, L), on copies of v, v' and the block's diagonal data; w written back;
@@ -10,7 +11,8 @@
  *           amplitudes are the mirror partners in reverse order (the kernel reads them reversed); then wᵀv.
  *
  * Memory traffic: pass A reads v, v' and the diagonal and writes w; pass B reads v and w and writes w: 49 bytes per
- * amplitude with one-byte levels, about twice the 25-byte floor. A single fused pass instead reads v once more for
+ * amplitude with one-byte levels, about twice the 25-byte floor (the WebAssembly kernels' copies in and out come on
+ * top, in the cache). A single fused pass instead reads v once more for
  * every bit whose partner lies beyond the cache (six or seven bits at n = 28 on a 32 MiB cache). Blocks and groups
  * are independent, so threads split them (product-team.ts): all of pass A, then all of pass B.
  *

@@ -12,7 +12,8 @@
  * top qubit's flip maps z to dim − 1 − z.
  *
  * Product: {@link applyOperator}. From 2^10 amplitudes it is the two-pass blocked product of blocked-product.ts
- * (WebAssembly SIMD kernels on cache-sized scratch copies); below (and when no plan exists),
+ * (native kernels when built, else WebAssembly SIMD kernels on cache-sized scratch copies); below (and when no plan
+ * exists),
  * the scalar fused pass here: eight amplitudes in registers, the three low flips
  * inside the group, every higher flip read from the partner's 64-byte line, the diagonal computed inline.
  */
