@@ -1,6 +1,6 @@
 // Build step after tsc: compiles the in-place transverse-field product (harness/predict/numerics/native/
 // transverse-product.c) into a Node-API addon, dist/harness/predict/numerics/native/transverse-product.node, with
-// the machine's C compiler ($CC, else cc) and the Node-API headers of the node-api-headers package.
+// the machine's C compiler ($CC, else cc, gcc or clang) and the Node-API headers of the node-api-headers package.
 //
 // No compiler on the machine: a one-line notice, no addon, and the spectral numerics run on the WebAssembly kernels
 // (slower, same results to rounding). A compiler that is there but fails is an error: the build stops.
@@ -14,11 +14,13 @@ const root = fileURLToPath(new URL("..", import.meta.url));
 const source = join(root, "harness/predict/numerics/native/transverse-product.c");
 const outDir = join(root, "dist/harness/predict/numerics/native");
 const target = join(outDir, "transverse-product.node");
-const compiler = process.env.CC || "cc";
+// $CC when set, else the first of cc, gcc, clang that runs (test/blocked-product.test.ts checks the same list).
+const candidates = process.env.CC ? [process.env.CC] : ["cc", "gcc", "clang"];
+const compiler = candidates.find((c) => spawnSync(c, ["--version"], { stdio: "ignore" }).status === 0);
 
-if (spawnSync(compiler, ["--version"], { stdio: "ignore" }).status !== 0) {
+if (compiler === undefined) {
   rmSync(target, { force: true });
-  console.log(`build-native: no C compiler ('${compiler}'); the spectral product will use the WebAssembly kernels`);
+  console.log(`build-native: no C compiler (tried ${candidates.join(", ")}); the spectral product will use the WebAssembly kernels`);
   process.exit(0);
 }
 const headers = join(dirname(createRequire(import.meta.url).resolve("node-api-headers/package.json")), "include");

@@ -8,7 +8,7 @@
 import { spawnSync } from "node:child_process";
 import { describe, expect, it } from "vitest";
 import { applyBlocked, BlockedKernel, blockedPlan, type BlockedPlan } from "../harness/predict/numerics/blocked-product.js";
-import { nativeProduct, type ProductKernels } from "../harness/predict/numerics/native/kernels.js";
+import { defaultProductKernels, nativeProduct, type ProductKernels } from "../harness/predict/numerics/native/kernels.js";
 import { ProductTeam, sharedFloat64, sharedUint16, sharedUint8 } from "../harness/predict/numerics/product-team.js";
 import { sweepRange } from "../harness/predict/numerics/vector-ops.js";
 import { diagonalAt, type Diagonal, type TransverseFieldOperator } from "../harness/predict/numerics/transverse-field.js";
@@ -119,8 +119,26 @@ describe("blocked transverse-field product against the definition", () => {
   }
 
   it("the native kernels are built wherever a C compiler is (the install's build step compiles them)", () => {
-    const compiler = spawnSync(process.env.CC || "cc", ["--version"], { stdio: "ignore" });
-    expect(built).toBe(compiler.status === 0);
+    // The build script's list: $CC when set, else cc, gcc, clang.
+    const candidates = process.env.CC ? [process.env.CC] : ["cc", "gcc", "clang"];
+    const compiler = candidates.some((c) => spawnSync(c, ["--version"], { stdio: "ignore" }).status === 0);
+    expect(built).toBe(compiler);
+  });
+
+  it("SPEEDBOUND_PRODUCT picks the kernels and refuses other values", () => {
+    const saved = process.env.SPEEDBOUND_PRODUCT;
+    try {
+      process.env.SPEEDBOUND_PRODUCT = "wasm";
+      expect(defaultProductKernels()).toBe("wasm");
+      process.env.SPEEDBOUND_PRODUCT = "native";
+      if (built) expect(defaultProductKernels()).toBe("native");
+      else expect(() => defaultProductKernels()).toThrow(/was not built/);
+      process.env.SPEEDBOUND_PRODUCT = "gpu";
+      expect(() => defaultProductKernels()).toThrow("SPEEDBOUND_PRODUCT must be 'native' or 'wasm', not 'gpu'");
+    } finally {
+      if (saved === undefined) delete process.env.SPEEDBOUND_PRODUCT;
+      else process.env.SPEEDBOUND_PRODUCT = saved;
+    }
   });
 
   it("applyBlocked runs on the thread's default kernels (native when built)", () => {
