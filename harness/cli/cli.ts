@@ -11,6 +11,8 @@ import { plainSolveArgs } from "./plain-solve.js";
 async function main(): Promise<number> {
   // The arguments after `node SCRIPT` (what yargs' hideBin gives outside Electron).
   const args = process.argv.slice(2);
+  // A product-kernel choice in the environment is checked here, once, not first inside a pool worker mid-study.
+  if (process.env.SPEEDBOUND_PRODUCT) (await import("../predict/numerics/native/kernels.js")).defaultProductKernels();
   const plain = plainSolveArgs(args);
   if (plain !== null) return (await import("./commands/solve.js")).solve(plain);
   return (await import("./command-tree.js")).runCommandTree(args);

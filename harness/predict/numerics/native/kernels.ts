@@ -7,6 +7,7 @@
 import { existsSync } from "node:fs";
 import { createRequire } from "node:module";
 import { fileURLToPath } from "node:url";
+import { InputError } from "../../../errors.js";
 
 /** The addon's two passes (see transverse-product.c; sizes are powers of two, ranges in blocks or groups). */
 export interface NativeProduct {
@@ -44,14 +45,19 @@ export function nativeProduct(): NativeProduct | null {
   return loaded;
 }
 
-/** The kernels a new product uses on this thread: SPEEDBOUND_PRODUCT (native or wasm) if set, else native when built. */
+/**
+ * The kernels a new product uses on this thread: SPEEDBOUND_PRODUCT (native or wasm) if set, else native when built.
+ * A value it cannot honour is the user's input, so an {@link InputError} (the CLI checks it before any command).
+ */
 export function defaultProductKernels(): ProductKernels {
   const asked = process.env.SPEEDBOUND_PRODUCT;
   if (asked === "wasm") return "wasm";
   if (asked === "native") {
-    if (nativeProduct() === null) throw new Error(`SPEEDBOUND_PRODUCT=native, but ${addonPath()} was not built (no C compiler at install?)`);
+    if (nativeProduct() === null) {
+      throw new InputError(`SPEEDBOUND_PRODUCT=native, but ${addonPath()} was not built (no C compiler at install?)`);
+    }
     return "native";
   }
-  if (asked !== undefined && asked !== "") throw new Error(`SPEEDBOUND_PRODUCT must be 'native' or 'wasm', not '${asked}'`);
+  if (asked !== undefined && asked !== "") throw new InputError(`SPEEDBOUND_PRODUCT must be 'native' or 'wasm', not '${asked}'`);
   return nativeProduct() !== null ? "native" : "wasm";
 }
