@@ -11,7 +11,10 @@ import { InputError } from "../../../errors.js";
 
 /** The addon's two passes (see transverse-product.c; sizes are powers of two, ranges in blocks or groups). */
 export interface NativeProduct {
-  /** Pass A over blocks [from, to) of 2^low amplitudes; kind 0/1/2 = one-byte levels, two-byte levels, affine. */
+  /**
+   * Pass A over blocks [from, to) of 2^low amplitudes; kind 0/1/2 = one-byte levels, two-byte levels, affine. The
+   * table must have an entry for every level in `data` (sector-cost.ts builds both; the addon does not scan them).
+   */
   passA(
     v: Float64Array, vprev: Float64Array, kind: number, data: Uint8Array | Uint16Array | Float64Array,
     table: Float64Array | null, w: Float64Array, sigma: number, gamma: number, sx: number,

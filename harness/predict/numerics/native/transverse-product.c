@@ -3,15 +3,16 @@
  * memory, as a Node-API addon built at install time by scripts/build-native.mjs. Same two passes and the same plan
  * as blocked-product.ts (see there); what differs from the WebAssembly kernels:
  *
- *   - no scratch copies: the kernels read and write the SharedArrayBuffers directly, so a product moves about
- *     49 bytes per amplitude (one-byte levels) instead of about 97 with the gathers and scatters;
+ *   - the kernels read and write the SharedArrayBuffers directly: only v is copied, into padded rows that stay in
+ *     the cache (see pass_a_body and pass_b), so a product moves about 49 bytes per amplitude to and from memory
+ *     (one-byte levels) and makes no copies of v', w or the diagonal;
  *   - vectors of eight doubles (GCC vector extensions, compiled for AVX-512, AVX2 and plain x86-64 with
  *     target_clones and picked at load time by the processor's features), against two in WebAssembly SIMD;
- *   - pass B walks each group in tiles of TILE amplitudes across all of its rows, so the partner rows of a tile
- *     stay in the inner caches while the flips of every high bit read them.
+ *   - pass B walks each group in tiles of columns across all of its rows, so the partner rows of a tile stay in
+ *     the inner caches while the flips of every high bit read them.
  *
  * Every group of eight amplitudes is one vector: the flips of bits 0–2 are lane permutations, every other flip a
- * load of the partner group. Four groups are summed side by side (four independent add chains).
+ * load of the partner group. Pass A sums four groups side by side (four independent add chains).
  */
 #include <node_api.h>
 #include <stdlib.h>
@@ -80,7 +81,7 @@ static inline __attribute__((always_inline)) v8d diag8(const diagonal_t *d, int 
  *
  * A block of at least one row is first copied into `scratch` in rows of 4 KiB, one cache line apart more than
  * their length: in place, the partners of the bits from 2^9 up lie 4 KiB multiples apart, all in one set of the
- * first-level cache, and evict each other on every group (n = 26, one thread: 3.2–3.6 ns per amplitude in place,
+ * first-level cache, and evict each other on every group (n = 26, one thread: 3.2–3.9 ns per amplitude in place,
  * 2.0–2.2 from the padded rows, copy included). Partners of the bits below 2^9 are then in the same row, those
  * above in the row whose index differs in one bit.
  */
