@@ -7,7 +7,7 @@
  */
 import { spawnSync } from "node:child_process";
 import { describe, expect, it } from "vitest";
-import { applyBlocked, BlockedKernel, blockedPlan, type BlockedPlan } from "../harness/predict/numerics/blocked-product.js";
+import { applyBlocked, BlockedKernel, blockedPlan } from "../harness/predict/numerics/blocked-product.js";
 import { defaultProductKernels, nativeProduct, type ProductKernels } from "../harness/predict/numerics/native/kernels.js";
 import { ProductTeam, sharedFloat64, sharedUint16, sharedUint8 } from "../harness/predict/numerics/product-team.js";
 import { sweepRange } from "../harness/predict/numerics/vector-ops.js";
@@ -66,15 +66,6 @@ function compare(op: TransverseFieldOperator, v: Float64Array, prev: Float64Arra
   return [err, Math.abs(alpha - dot) / Math.max(1, Math.abs(dot))];
 }
 
-/** The whole product (pass A over every block, then pass B) on one kernel; returns wᵀv. */
-function product(
-  kernel: BlockedKernel, op: TransverseFieldOperator, plan: BlockedPlan, v: Float64Array, sigma: number,
-  prev: Float64Array, gamma: number, w: Float64Array,
-): number {
-  kernel.passA(op, plan, v, sigma, prev, gamma, w, 0, plan.blocks);
-  return kernel.passB(op, plan, v, sigma, w, 0, plan.groups);
-}
-
 const built = nativeProduct() !== null;
 
 describe("blocked transverse-field product against the definition", () => {
@@ -104,11 +95,11 @@ describe("blocked transverse-field product against the definition", () => {
           const v = randomVector(op.dim, rng);
           const prev = randomVector(op.dim, rng);
           const w = sharedFloat64(op.dim);
-          const [err, alphaErr] = compare(op, v, prev, w, product(kernel, op, plan!, v, 1.3, prev, 0.4, w));
+          const [err, alphaErr] = compare(op, v, prev, w, applyBlocked(op, plan!, v, 1.3, prev, 0.4, w, kernel));
           expect(err).toBeLessThan(1e-12);
           expect(alphaErr).toBeLessThan(1e-12);
           // γ = 0 with v' = v (the residual check's call): no copy of v' is made, the result is H v.
-          product(kernel, op, plan!, v, 1.3, v, 0, w);
+          applyBlocked(op, plan!, v, 1.3, v, 0, w, kernel);
           const ref0 = definition(op, v, 1.3, v, 0);
           let e0 = 0;
           for (let z = 0; z < op.dim; z++) e0 = Math.max(e0, Math.abs(w[z] - ref0[z]));
@@ -123,6 +114,23 @@ describe("blocked transverse-field product against the definition", () => {
     const candidates = process.env.CC ? [process.env.CC] : ["cc", "gcc", "clang"];
     const compiler = candidates.some((c) => spawnSync(c, ["--version"], { stdio: "ignore" }).status === 0);
     expect(built).toBe(compiler);
+  });
+
+  it.skipIf(!built)("the native addon refuses arrays of the wrong type, unknown kinds and ranges beyond the vectors", () => {
+    const addon = nativeProduct()!;
+    const v = new Float64Array(1024);
+    const w = new Float64Array(1024);
+    const levels = new Uint8Array(1024);
+    const table = new Float64Array(4);
+    const passA = (data: Uint8Array | Uint16Array | Float64Array, kind: number, to: number, vec: Float64Array | Uint8Array = v) =>
+      addon.passA(vec as Float64Array, v, kind, data, table, w, 1, 0, -0.1, 0, 0, 0, 9, 0, to);
+    expect(() => passA(levels, 0, 2)).not.toThrow(); // two blocks of 2^9 fill the 1024 amplitudes
+    expect(() => passA(levels, 0, 3)).toThrow("passA sizes do not fit the plan"); // a third block lies beyond
+    expect(() => passA(levels, 1, 2)).toThrow("passA expects Float64Arrays"); // one-byte levels declared as two-byte
+    expect(() => passA(levels, 0, 2, new Uint8Array(8192))).toThrow("passA expects Float64Arrays");
+    expect(() => passA(levels, 3, 2)).toThrow("kind must be 0, 1 or 2");
+    expect(() => addon.passB(v, w, -0.1, 10, 7, 3, 3, 0, 64, 0, 17)).toThrow("passB sizes do not fit the plan"); // 2^(7−3) groups
+    expect(() => addon.passB(v, w, -0.1, 11, 7, 3, 4, 0, 64, 0, 16)).toThrow("passB sizes do not fit the plan"); // 2^11 > 1024
   });
 
   it("SPEEDBOUND_PRODUCT picks the kernels and refuses other values", () => {

@@ -7,6 +7,7 @@ import { existsSync } from "node:fs";
 import { fileURLToPath } from "node:url";
 import { Piscina } from "piscina";
 import type { Task } from "./tasks.js";
+import { compiledFile } from "../compiled-file.js";
 
 /**
  * Path of the compiled worker entry: the CommonJS shim worker-entry.cjs, never the ESM worker.js itself
@@ -14,10 +15,7 @@ import type { Task } from "./tasks.js";
  * while loading; see worker-entry.cts).
  */
 export function workerPath(): string {
-  const here = fileURLToPath(import.meta.url);
-  const compiled = here.endsWith(".ts")
-    ? fileURLToPath(new URL("../../dist/harness/engine/worker-entry.cjs", import.meta.url))
-    : fileURLToPath(new URL("./worker-entry.cjs", import.meta.url));
+  const compiled = fileURLToPath(compiledFile(import.meta.url, "./worker-entry.cjs"));
   if (!existsSync(compiled)) throw new Error(`compiled worker missing at ${compiled}: run 'npm run build' first`);
   return compiled;
 }

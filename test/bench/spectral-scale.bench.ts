@@ -34,8 +34,7 @@ import { basisMemoryFor, spectralMemoryNeeded } from "../../harness/predict/nume
 import { DEFAULT_SPECTRAL_OPTIONS } from "../../harness/predict/spectral.js";
 import { spectralLeanScan } from "../../harness/predict/spectral-lean.js";
 import { ProductTeam, sharedFloat64 } from "../../harness/predict/numerics/product-team.js";
-import { BlockedKernel } from "../../harness/predict/numerics/blocked-product.js";
-import { nativeProduct } from "../../harness/predict/numerics/native/kernels.js";
+import { defaultProductKernels, nativeProduct } from "../../harness/predict/numerics/native/kernels.js";
 import { triadBandwidth } from "./triad.js";
 
 /** Threads for the team rows and the points: the machine's cores. */
@@ -50,7 +49,7 @@ function skInstance(n: number): Problem {
 }
 
 function matvecRow(n: number, bandwidth: number, teamBandwidth: number): void {
-  const kernels = new BlockedKernel().use;
+  const kernels = defaultProductKernels();
   // The verdict is for the kernels a study uses; the WebAssembly rows under native ones are for comparison.
   const judged = kernels === "native" || nativeProduct() === null;
   const problem = planted3Sat(n);
@@ -109,7 +108,7 @@ function pointHere(label: string, problem: Problem, target: number): void {
   const [row] = spectralLeanScan(problem, cost, cost.min, [0.7], { ...DEFAULT_SPECTRAL_OPTIONS, eta: 0.5, basisMemory }, THREADS);
   const wall = (performance.now() - t) / 1000;
   console.log(
-    `point ${label} (b, η) = (0.7, 0.5), ${row.sector}, ${THREADS} threads, ${new BlockedKernel().use} kernels: ${wall.toFixed(1)} s (cost ${built.toFixed(1)} s), ${row.iterations} products, ` +
+    `point ${label} (b, η) = (0.7, 0.5), ${row.sector}, ${THREADS} threads, ${defaultProductKernels()} kernels: ${wall.toFixed(1)} s (cost ${built.toFixed(1)} s), ${row.iterations} products, ` +
       `e0 ${row.e0.toFixed(9)}, e1 ${row.e1.toFixed(9)}, overlap_start ${row.overlap_start.toExponential(4)}, ` +
       `overlap_opt ${row.overlap_opt.toExponential(4)}, residual ${row.residual.toExponential(1)} ` +
       (Number.isFinite(target) ? `[target < ${target} s: ${wall < target ? "met" : "NOT met"}]` : "[no time target: computed to the end]"),

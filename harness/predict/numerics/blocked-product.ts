@@ -242,7 +242,7 @@ export function blockedKernel(): BlockedKernel {
   return threadKernel;
 }
 
-/** The whole product on the calling thread (pass A over every block, then pass B); returns wᵀv. */
+/** The whole product (pass A over every block, then pass B) on `kernel` (the calling thread's by default); returns wᵀv. */
 export function applyBlocked(
   op: TransverseFieldOperator,
   plan: BlockedPlan,
@@ -251,8 +251,8 @@ export function applyBlocked(
   vprev: Float64Array,
   gamma: number,
   w: Float64Array,
+  kernel: BlockedKernel = blockedKernel(),
 ): number {
-  const kernel = blockedKernel();
   kernel.passA(op, plan, v, sigma, vprev, gamma, w, 0, plan.blocks);
   return kernel.passB(op, plan, v, sigma, w, 0, plan.groups);
 }

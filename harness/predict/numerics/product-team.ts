@@ -10,6 +10,7 @@
  */
 import { MessageChannel, Worker } from "node:worker_threads";
 import { applyOperator, applyOperatorRange, type TransverseFieldOperator } from "./transverse-field.js";
+import { compiledFile } from "../../compiled-file.js";
 import { blockedKernel, productPlan } from "./blocked-product.js";
 import { combineRange, sweepRange, updateRange } from "./vector-ops.js";
 
@@ -25,9 +26,7 @@ export const FAILED = -1;
  * source (the test runner), since a worker thread loads JavaScript only.
  */
 function compiledSibling(name: string): URL {
-  return import.meta.url.endsWith(".ts")
-    ? new URL(`../../../dist/harness/predict/numerics/${name}`, import.meta.url)
-    : new URL(`./${name}`, import.meta.url);
+  return compiledFile(import.meta.url, `./${name}`);
 }
 
 /** Smallest working dimension worth splitting (below it the hand-off costs more than it saves). */

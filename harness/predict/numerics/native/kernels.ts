@@ -7,6 +7,7 @@
 import { existsSync } from "node:fs";
 import { createRequire } from "node:module";
 import { fileURLToPath } from "node:url";
+import { compiledFile } from "../../../compiled-file.js";
 import { InputError } from "../../../errors.js";
 
 /** The addon's two passes (see transverse-product.c; sizes are powers of two, ranges in blocks or groups). */
@@ -32,12 +33,9 @@ export type ProductKernels = "native" | "wasm";
 
 let loaded: NativeProduct | null | undefined;
 
-/** The addon's path: beside the compiled kernels.js, or its dist/ copy when this file runs from source (tests). */
+/** The addon's path (beside the compiled kernels.js). */
 function addonPath(): string {
-  const url = import.meta.url.endsWith(".ts")
-    ? new URL("../../../../dist/harness/predict/numerics/native/transverse-product.node", import.meta.url)
-    : new URL("./transverse-product.node", import.meta.url);
-  return fileURLToPath(url);
+  return fileURLToPath(compiledFile(import.meta.url, "./transverse-product.node"));
 }
 
 /** The addon, or null when it was not built on this machine (no C compiler at install time). */

@@ -226,13 +226,27 @@ KERNEL static double pass_b(const double *v, double *w, double *scratch, double 
     }                                                                    \
   } while (0)
 
-/* The data pointer and element count of a typed array argument. */
-static int typed(napi_env env, napi_value value, void **data, size_t *length) {
+/* The data pointer and element count of a typed array argument of the given element type; 0 if it is not one. */
+static int typed(napi_env env, napi_value value, napi_typedarray_type want, void **data, size_t *length) {
   napi_typedarray_type type;
   napi_value buffer;
   size_t offset;
-  return napi_get_typedarray_info(env, value, &type, length, data, &buffer, &offset) == napi_ok;
+  return napi_get_typedarray_info(env, value, &type, length, data, &buffer, &offset) == napi_ok && type == want;
 }
+
+/* Reads `count` numeric arguments into `out`; 0 (a TypeError thrown) if one is not a number. */
+static int numbers(napi_env env, const napi_value *args, size_t count, double *out) {
+  for (size_t i = 0; i < count; i++) {
+    if (napi_get_value_double(env, args[i], &out[i]) != napi_ok) {
+      napi_throw_type_error(env, NULL, "transverse-product: expected a number");
+      return 0;
+    }
+  }
+  return 1;
+}
+
+/* x is a whole number in [lo, hi] (sizes and ranges: also keeps every shift below 2^62). */
+static int whole(double x, double lo, double hi) { return x == (double)(int64_t)x && x >= lo && x <= hi; }
 
 /* The passes' scratch: one per thread (per Node-API environment), grown as plans need, freed with the thread. */
 typedef struct {
@@ -266,6 +280,7 @@ static double *thread_scratch(napi_env env, size_t bytes) {
   return s->data;
 }
 
+/* passA(v, vprev, kind, data, table, w, σ, γ, sx, scale, shift, cap, low, from, to): see kernels.ts. */
 static napi_value js_pass_a(napi_env env, napi_callback_info info) {
   size_t argc = 15;
   napi_value args[15];
@@ -274,48 +289,46 @@ static napi_value js_pass_a(napi_env env, napi_callback_info info) {
     napi_throw_error(env, NULL, "transverse-product: passA takes 15 arguments");
     return NULL;
   }
+  double kind, x[9]; /* σ, γ, sx, scale, shift, cap, low, from, to */
+  if (!numbers(env, args + 2, 1, &kind) || !numbers(env, args + 6, 9, x)) return NULL;
+  if (!whole(kind, LEVELS8, AFFINE)) {
+    napi_throw_range_error(env, NULL, "transverse-product: passA diagonal kind must be 0, 1 or 2");
+    return NULL;
+  }
+  static const napi_typedarray_type data_type[] = {napi_uint8_array, napi_uint16_array, napi_float64_array};
   void *v, *vp, *data, *table = NULL, *w;
   size_t nv, nvp, ndata, ntable = 0, nw;
-  int32_t kind, low;
-  double sigma, gamma, sx, scale, shift, cap, from, to;
-  if (!typed(env, args[0], &v, &nv) || !typed(env, args[1], &vp, &nvp) || !typed(env, args[3], &data, &ndata) ||
-      !typed(env, args[5], &w, &nw)) {
-    napi_throw_type_error(env, NULL, "transverse-product: passA expects typed arrays");
-    return NULL;
-  }
-  CHECK(napi_get_value_int32(env, args[2], &kind));
   napi_valuetype tt;
   CHECK(napi_typeof(env, args[4], &tt));
-  if (tt != napi_null && !typed(env, args[4], &table, &ntable)) {
-    napi_throw_type_error(env, NULL, "transverse-product: passA table must be a Float64Array or null");
+  if (!typed(env, args[0], napi_float64_array, &v, &nv) || !typed(env, args[1], napi_float64_array, &vp, &nvp) ||
+      !typed(env, args[3], data_type[(int)kind], &data, &ndata) || !typed(env, args[5], napi_float64_array, &w, &nw) ||
+      (tt != napi_null && !typed(env, args[4], napi_float64_array, &table, &ntable)) ||
+      ((int)kind != AFFINE && table == NULL)) {
+    napi_throw_type_error(env, NULL,
+                          "transverse-product: passA expects Float64Arrays v, vprev, w, levels (Uint8Array or "
+                          "Uint16Array) with a Float64Array table, or Float64Array costs");
     return NULL;
   }
-  CHECK(napi_get_value_double(env, args[6], &sigma));
-  CHECK(napi_get_value_double(env, args[7], &gamma));
-  CHECK(napi_get_value_double(env, args[8], &sx));
-  CHECK(napi_get_value_double(env, args[9], &scale));
-  CHECK(napi_get_value_double(env, args[10], &shift));
-  CHECK(napi_get_value_double(env, args[11], &cap));
-  CHECK(napi_get_value_int32(env, args[12], &low));
-  CHECK(napi_get_value_double(env, args[13], &from));
-  CHECK(napi_get_value_double(env, args[14], &to));
-  const int64_t block = (int64_t)1 << low;
-  if (low < 3 || from < 0 || to < from || (int64_t)to * block > (int64_t)nv || nvp < nv || nw < nv || ndata < nv ||
-      (kind != AFFINE && table == NULL)) {
+  const double low = x[6], from = x[7], to = x[8];
+  if (!whole(low, 3, 40) || !whole(from, 0, to) || !whole(to, from, (double)(nv >> (int)low)) || nvp < nv || nw < nv ||
+      ndata < nv) {
     napi_throw_range_error(env, NULL, "transverse-product: passA sizes do not fit the plan");
     return NULL;
   }
-  diagonal_t d = {kind, data, (const double *)table, scale, shift, cap};
-  double *scratch = thread_scratch(env, 8 * (size_t)ROW_PITCH * ((block >> ROW_BITS) + 1));
+  diagonal_t d = {(int)kind, data, (const double *)table, x[3], x[4], x[5]};
+  /* Pass A's rows (blocks shorter than a row take no scratch; one row is asked for all the same). */
+  const int64_t rows = ((int64_t)1 << (int)low) >> ROW_BITS;
+  double *scratch = thread_scratch(env, 8 * (size_t)ROW_PITCH * (size_t)(rows > 0 ? rows : 1));
   if (scratch == NULL) {
     napi_throw_error(env, NULL, "transverse-product: no memory for pass A's scratch");
     return NULL;
   }
-  pass_a((const double *)v, (const double *)vp, &d, (double *)w, scratch, sigma, gamma, sx, low, (int64_t)from,
+  pass_a((const double *)v, (const double *)vp, &d, (double *)w, scratch, x[0], x[1], x[2], (int)low, (int64_t)from,
          (int64_t)to);
   return NULL;
 }
 
+/* passB(v, w, sx, bits, low, run, high, mirror, tile, from, to) → wᵀv of the groups: see kernels.ts. */
 static napi_value js_pass_b(napi_env env, napi_callback_info info) {
   size_t argc = 11;
   napi_value args[11];
@@ -326,35 +339,27 @@ static napi_value js_pass_b(napi_env env, napi_callback_info info) {
   }
   void *v, *w;
   size_t nv, nw;
-  if (!typed(env, args[0], &v, &nv) || !typed(env, args[1], &w, &nw)) {
-    napi_throw_type_error(env, NULL, "transverse-product: passB expects typed arrays");
+  if (!typed(env, args[0], napi_float64_array, &v, &nv) || !typed(env, args[1], napi_float64_array, &w, &nw)) {
+    napi_throw_type_error(env, NULL, "transverse-product: passB expects Float64Arrays v and w");
     return NULL;
   }
-  double sx, tile, from, to;
-  int32_t bits, low, run, high, mirror;
-  CHECK(napi_get_value_double(env, args[2], &sx));
-  CHECK(napi_get_value_int32(env, args[3], &bits));
-  CHECK(napi_get_value_int32(env, args[4], &low));
-  CHECK(napi_get_value_int32(env, args[5], &run));
-  CHECK(napi_get_value_int32(env, args[6], &high));
-  CHECK(napi_get_value_int32(env, args[7], &mirror));
-  CHECK(napi_get_value_double(env, args[8], &tile));
-  CHECK(napi_get_value_double(env, args[9], &from));
-  CHECK(napi_get_value_double(env, args[10], &to));
-  if (bits != low + high || run < 3 || run >= low || (size_t)((int64_t)1 << bits) > nv || nw < nv || tile < 8 || from < 0 || to < from ||
-      to > (double)((int64_t)1 << (low - run - mirror)) ||
-      (mirror != 0 && mirror != 1)) {
+  double x[9]; /* sx, bits, low, run, high, mirror, tile, from, to */
+  if (!numbers(env, args + 2, 9, x)) return NULL;
+  const double bits = x[1], low = x[2], run = x[3], high = x[4], mirror = x[5], tile = x[6], from = x[7], to = x[8];
+  if (!whole(bits, 4, 40) || !whole(low, 4, bits) || !whole(run, 3, low - 1) || high != bits - low ||
+      !whole(mirror, 0, 1) || ((size_t)1 << (int)bits) > nv || nw < nv || !whole(tile, 8, 1e15) ||
+      !whole(from, 0, to) || !whole(to, from, (double)((int64_t)1 << (int)(low - run - mirror)))) {
     napi_throw_range_error(env, NULL, "transverse-product: passB sizes do not fit the plan");
     return NULL;
   }
-  const size_t bytes = 8 * (size_t)(mirror + 1) * ((size_t)1 << high) * (((size_t)1 << run) + 8);
+  const size_t bytes = 8 * (size_t)(mirror + 1) * ((size_t)1 << (int)high) * (((size_t)1 << (int)run) + 8);
   double *scratch = thread_scratch(env, bytes);
   if (scratch == NULL) {
     napi_throw_error(env, NULL, "transverse-product: no memory for pass B's scratch");
     return NULL;
   }
-  double alpha = pass_b((const double *)v, (double *)w, scratch, sx, bits, low, run, high, mirror, (int64_t)tile,
-                        (int64_t)from, (int64_t)to);
+  double alpha = pass_b((const double *)v, (double *)w, scratch, x[0], (int)bits, (int)low, (int)run, (int)high,
+                        (int)mirror, (int64_t)tile, (int64_t)from, (int64_t)to);
   napi_value result;
   CHECK(napi_create_double(env, alpha, &result));
   return result;

@@ -4,6 +4,7 @@
  */
 import { readFileSync } from "node:fs";
 import { fileURLToPath } from "node:url";
+import { compiledFile } from "../../../compiled-file.js";
 
 /** The kernels' exports (see kernel-source.ts for the arguments; offsets and sizes in bytes). */
 export interface TransverseKernels {
@@ -26,9 +27,7 @@ let compiled: WebAssembly.Module | null = null;
  */
 function kernelModule(): WebAssembly.Module {
   if (compiled !== null) return compiled;
-  const url = import.meta.url.endsWith(".ts")
-    ? new URL("../../../../dist/harness/predict/numerics/wasm/transverse-kernels.wasm", import.meta.url)
-    : new URL("./transverse-kernels.wasm", import.meta.url);
+  const url = compiledFile(import.meta.url, "./transverse-kernels.wasm");
   let bytes: Buffer;
   try {
     bytes = readFileSync(url);
